@@ -1,0 +1,1 @@
+"""Notchwise spreadsheet functions (xlwings) and the command-line tool."""

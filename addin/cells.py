@@ -1,0 +1,214 @@
+"""The one pattern every spreadsheet function follows.
+
+A spreadsheet function is an xlwings function over one core call, in three
+steps: convert and validate the cell values (the converters below), call the
+core, shape the result (a scalar, or rows under a header row with units).
+:func:`cell_function` registers it with xlwings and gives it the one error
+path: whatever goes wrong, the cell shows one line of plain words and the
+spreadsheet never sees an exception.
+
+Excel hands a function floats, text, booleans, ``None`` for a blank cell and
+tuples of rows for a range; arguments listed in ``tables`` always arrive as a
+list of rows (xlwings ``ndim=2``), even from a single cell.
+"""
+
+from __future__ import annotations
+
+import functools
+import inspect
+import logging
+import math
+
+import numpy as np
+import xlwings as xw
+
+from formulas.errors import DesignError, InputError, InputTypeError, as_float, choose
+
+__all__ = [
+    "ERROR_PREFIX",
+    "CATEGORY",
+    "cell_function",
+    "guard",
+    "each",
+    "number",
+    "optional_number",
+    "optional_count",
+    "flag",
+    "option",
+    "table",
+    "column",
+    "spill",
+]
+
+ERROR_PREFIX = "Error: "
+CATEGORY = "Notchwise"
+_EXPECTED = (InputError, InputTypeError, DesignError)
+_log = logging.getLogger(__name__)
+
+
+def cell_function(tables: tuple = (), **arg_docs: str):
+    """Register ``func`` as a spreadsheet function with help text per argument.
+
+    Parameters
+    ----------
+    tables : tuple of str
+        Arguments that take a range; they arrive as a list of rows.
+    **arg_docs : str
+        Help for each argument, with its unit in brackets, shown by Excel's
+        function wizard.
+    """
+
+    def register(func):
+        signature = inspect.signature(func)
+
+        @functools.wraps(func)
+        def guarded(*args, **kwargs):
+            try:
+                bound = signature.bind(*args, **kwargs)
+            except TypeError as error:  # wrong number of arguments from a hand-written call
+                return f"{ERROR_PREFIX}{func.__name__}: {error}"
+            return guard(func, *bound.args, **bound.kwargs)
+
+        # xlwings reads the signature to write the VBA wrapper: keep the wrapped one.
+        guarded.__signature__ = signature
+        registered = guarded
+        for name, doc in arg_docs.items():
+            options = {"ndim": 2} if name in tables else {}
+            registered = xw.arg(name, doc=doc, **options)(registered)
+        return xw.func(category=CATEGORY)(registered)
+
+    return register
+
+
+def guard(compute, *args, **kwargs):
+    """``compute(*args)``, or the cell's one line of text where it fails.
+
+    Our own errors become their message; any other exception is a fault of
+    ours, logged and still shown as text, so a cell never sees a traceback.
+    """
+    try:
+        return compute(*args, **kwargs)
+    except _EXPECTED as error:
+        return ERROR_PREFIX + str(error)
+    except Exception as error:
+        _log.exception("%s failed", getattr(compute, "__name__", compute))
+        name = getattr(compute, "__name__", "a function")
+        return f"{ERROR_PREFIX}internal fault in {name} ({type(error).__name__}: {error}); please report it"
+
+
+def each(name: str, value, unit: str, compute):
+    """Apply ``compute`` to one number, or to every cell of a range.
+
+    A single cell gives a single result; a range gives a column of results
+    (one row per cell, read row by row), and a cell that fails shows its own
+    message without spoiling the others, so a whole chart curve is one call.
+    """
+    if not isinstance(value, (list, tuple)):
+        return compute(number(name, value, unit))
+    cells = _filled_cells(name, value, unit)
+    return [[_cell(guard(lambda c=c, k=k: compute(number(f"{name} entry {k + 1}", c, unit))))] for k, c in enumerate(cells)]
+
+
+def _is_blank(value) -> bool:
+    return value is None or (isinstance(value, str) and not value.strip())
+
+
+def number(name: str, value, unit: str = "") -> float:
+    """A required number; text, blanks and booleans are refused by name."""
+    return as_float(name, value, unit)
+
+
+def optional_number(name: str, value, default, unit: str = ""):
+    """A number, or ``default`` where the cell is blank or skipped."""
+    return default if _is_blank(value) else as_float(name, value, unit)
+
+
+def optional_count(name: str, value):
+    """A whole number, or None where blank; range checks stay in the core."""
+    return None if _is_blank(value) else as_float(name, value)
+
+
+def flag(name: str, value, default: bool) -> bool:
+    """TRUE/FALSE from a cell; blank means ``default``; 1/0 and text TRUE/FALSE are accepted."""
+    if _is_blank(value):
+        return default
+    if isinstance(value, bool):
+        return value
+    if isinstance(value, (int, float)) and value in (0, 1):
+        return bool(value)
+    if isinstance(value, str) and value.strip().upper() in ("TRUE", "FALSE"):
+        return value.strip().upper() == "TRUE"
+    raise InputTypeError(f"{name} ({value!r}) must be TRUE or FALSE")
+
+
+def option(name: str, value, options) -> str:
+    """One of ``options``, named case-insensitively; the message lists them all."""
+    return choose(name, value, options)
+
+
+def _rows(value) -> list:
+    if value is None:
+        return []
+    if not isinstance(value, (list, tuple)):
+        return [[value]]
+    return [list(row) if isinstance(row, (list, tuple)) else [row] for row in value]
+
+
+def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, optional: bool = False):
+    """A numeric table from a range, as an array of shape (rows, len(columns)).
+
+    A leading row of text is a header and is skipped; blank rows at the end
+    (a range drawn larger than its data) are dropped. With ``optional`` an
+    all-blank range gives None.
+    """
+    rows = _rows(value)
+    if rows and all(isinstance(c, str) for c in rows[0] if not _is_blank(c)) and not all(map(_is_blank, rows[0])):
+        rows = rows[1:]
+    while rows and all(map(_is_blank, rows[-1])):
+        rows.pop()
+    if optional and not rows:
+        return None
+    if len(rows) < min_rows:
+        raise InputError(f"{name} has {len(rows)} rows of numbers; at least {min_rows} are needed")
+    if len(rows[0]) < len(columns):
+        raise InputError(f"{name} needs {len(columns)} columns ({', '.join(columns)}); it has {len(rows[0])}")
+    return np.array(
+        [
+            [as_float(f"{name} row {r + 1} {col}", row[c], unit) for c, (col, unit) in enumerate(zip(columns, units))]
+            for r, row in enumerate(rows)
+        ]
+    )
+
+
+def column(name: str, value, unit: str = "") -> np.ndarray:
+    """Numbers from a single row or column range (or one cell); trailing blanks dropped."""
+    cells = _filled_cells(name, value, unit)
+    return np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+
+
+def _filled_cells(name: str, value, unit: str) -> list:
+    """The cells of a range row by row, trailing blanks dropped; at least one."""
+    cells = [c for row in _rows(value) for c in row]
+    while cells and _is_blank(cells[-1]):
+        cells.pop()
+    if not cells:
+        raise InputTypeError(f"{name} is empty; numbers in {unit} are needed" if unit else f"{name} is empty")
+    return cells
+
+
+def _cell(value):
+    if isinstance(value, (float, np.floating)) and not math.isfinite(value):
+        return "" if math.isnan(value) else ("inf" if value > 0 else "-inf")
+    if isinstance(value, np.generic):
+        return value.item()
+    return value
+
+
+def spill(header: list, rows, headers: bool = True) -> list:
+    """Rows of a result table for a spilled range, with a header row when asked.
+
+    NaN becomes a blank cell; infinities become the text ``inf`` (Excel has no
+    infinite number).
+    """
+    body = [[_cell(v) for v in row] for row in rows]
+    return [list(header)] + body if headers else body

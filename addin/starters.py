@@ -1,0 +1,301 @@
+"""Spreadsheet functions for DC starters: grading, section checks, series-motor limits."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from formulas.dc_motor import (
+    CompoundMotor,
+    SeriesMotor,
+    ShuntMotor,
+    developed_torque_nm,
+    k_phi_from_rating,
+    magnetization_curve,
+    minimum_load,
+    residual_speed_rpm,
+    steady_speed_rpm,
+)
+from formulas.errors import require_non_negative, require_positive
+from formulas.grading import check_sections, grade_uniform
+
+from .cells import cell_function, each, flag, number, optional_count, optional_number, option, spill, table, column
+
+__all__ = [
+    "NW_GRADE_SHUNT",
+    "NW_GRADE_SERIES",
+    "NW_GRADE_COMPOUND",
+    "NW_CHECK_SECTIONS",
+    "NW_SERIES_SPEED",
+    "NW_SERIES_TORQUE",
+    "NW_SERIES_MIN_LOAD",
+    "NW_SERIES_RESIDUAL_SPEED",
+    "NW_SHUNT_KPHI",
+]
+
+GRADING_HEADER = ["notch", "R in circuit [ohm]", "section cut out [ohm]", "peak current [A]", "switching current [A]"]
+CHECK_HEADER = ["step", *GRADING_HEADER[1:], "verdict"]
+MOTOR_KINDS = ("shunt", "series", "compound")
+
+_DOC = {
+    "v_supply": "Supply voltage at the starter [V]",
+    "r_motor": "Motor's own circuit resistance: armature plus series field [ohm]",
+    "i_peak": "Current at the start of every notch, the upper limit [A]",
+    "i_switch": "Least current at which a notch may be cut out, the lower limit [A]",
+    "notches": "Optional fixed number of notches [-]; blank: the fewest that keep i_switch",
+    "brush_drop": "Optional total brush drop [V]; blank: 0 V (2 V for carbon brushes is common practice)",
+    "headers": "Optional TRUE (default) for a first row of labels with units [-]",
+    "mag_curve": "Magnetization curve: two columns, current [A] and EMF [V] at mag_speed; a text header row is skipped",
+    "mag_speed": "Speed at which mag_curve was measured [rpm]",
+    "r_circuit": "Total circuit resistance: motor plus any external resistance [ohm]",
+    "current": "Armature current [A]; a range gives a column of results",
+}
+
+
+def _series_curve(mag_curve, mag_speed=None, optional=False):
+    rows = table("mag_curve", mag_curve, ("current", "EMF"), ("A", "V"), min_rows=2, optional=optional)
+    if rows is None:
+        return None
+    speed = None if mag_speed is None else number("mag_speed", mag_speed, "rpm")
+    return magnetization_curve(rows[:, 0], rows[:, 1], speed)
+
+
+def _compound_motor(r_motor, mag_curve, shunt_at, series_turns):
+    rows = table("mag_curve", mag_curve, ("ampere-turns", "EMF"), ("A", "V"), min_rows=2)
+    curve = magnetization_curve(rows[:, 0], rows[:, 1], excitation_name="ampere-turns")
+    return CompoundMotor(
+        number("r_motor", r_motor, "ohm"),
+        curve,
+        require_non_negative("shunt_at", number("shunt_at", shunt_at, "A"), "A"),
+        require_positive("series_turns", number("series_turns", series_turns, "turns"), "turns"),
+    )
+
+
+def _shunt_motor(r_ohm):
+    # Grading needs only flux ratios, so the constant flux may be any value.
+    return ShuntMotor(r_ohm, k_phi_v_per_rpm=1.0)
+
+
+def _grading_rows(grading, headers):
+    rows = zip(
+        range(1, grading.notches + 1),
+        grading.r_total_ohm,
+        grading.r_section_ohm,
+        grading.i_peak_a,
+        grading.i_switch_a,
+    )
+    return spill(GRADING_HEADER, rows, flag("headers", headers, True))
+
+
+@cell_function(
+    v_supply=_DOC["v_supply"],
+    r_armature="Armature-circuit resistance of the motor [ohm]",
+    i_peak=_DOC["i_peak"],
+    i_switch=_DOC["i_switch"],
+    notches=_DOC["notches"],
+    brush_drop=_DOC["brush_drop"],
+    headers=_DOC["headers"],
+)
+def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
+    """Graded starter sections of a DC shunt or separately excited motor: one row per notch, geometric current-limit law."""
+    motor = _shunt_motor(require_positive("r_armature", r_armature, "ohm"))
+    grading = grade_uniform(
+        motor,
+        number("v_supply", v_supply, "V"),
+        number("i_peak", i_peak, "A"),
+        number("i_switch", i_switch, "A"),
+        optional_count("notches", notches),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    return _grading_rows(grading, headers)
+
+
+@cell_function(
+    tables=("mag_curve",),
+    v_supply=_DOC["v_supply"],
+    r_motor=_DOC["r_motor"],
+    i_peak=_DOC["i_peak"],
+    i_switch=_DOC["i_switch"],
+    mag_curve="Optional magnetization curve: current [A] and EMF [V] columns; blank: flux proportional to current",
+    notches=_DOC["notches"],
+    brush_drop=_DOC["brush_drop"],
+    headers=_DOC["headers"],
+)
+def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches=None, brush_drop=None, headers=None):
+    """Graded starter sections of a DC series motor, flux following current on its magnetization curve: one row per notch."""
+    motor = SeriesMotor(number("r_motor", r_motor, "ohm"), _series_curve(mag_curve, optional=True))
+    grading = grade_uniform(
+        motor,
+        number("v_supply", v_supply, "V"),
+        number("i_peak", i_peak, "A"),
+        number("i_switch", i_switch, "A"),
+        optional_count("notches", notches),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    return _grading_rows(grading, headers)
+
+
+@cell_function(
+    tables=("mag_curve",),
+    v_supply=_DOC["v_supply"],
+    r_motor=_DOC["r_motor"],
+    i_peak=_DOC["i_peak"],
+    i_switch=_DOC["i_switch"],
+    mag_curve="Magnetization curve: field ampere-turns per pole [A] and EMF [V] columns; a text header row is skipped",
+    shunt_at="Shunt-field ampere-turns per pole, constant [A]",
+    series_turns="Series-field turns per pole [turns]",
+    notches=_DOC["notches"],
+    brush_drop=_DOC["brush_drop"],
+    headers=_DOC["headers"],
+)
+def NW_GRADE_COMPOUND(
+    v_supply, r_motor, i_peak, i_switch, mag_curve, shunt_at, series_turns, notches=None, brush_drop=None, headers=None
+):
+    """Graded starter sections of a cumulative compound DC motor, flux from shunt plus series ampere-turns: one row per notch."""
+    grading = grade_uniform(
+        _compound_motor(r_motor, mag_curve, shunt_at, series_turns),
+        number("v_supply", v_supply, "V"),
+        number("i_peak", i_peak, "A"),
+        number("i_switch", i_switch, "A"),
+        optional_count("notches", notches),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    return _grading_rows(grading, headers)
+
+
+@cell_function(
+    tables=("sections", "mag_curve"),
+    kind="Motor kind: shunt, series or compound [-]",
+    v_supply=_DOC["v_supply"],
+    r_motor=_DOC["r_motor"],
+    sections="Section resistances in the order they are cut out: a column or row [ohm]",
+    i_switch="Current at which each notch is cut out [A]",
+    i_limit="Highest peak current the design allows [A]",
+    i_commutation="Highest current the motor commutates without damage [A]",
+    mag_curve="Series: current [A] and EMF [V] (blank: flux proportional to current); compound: ampere-turns [A] and EMF [V]",
+    shunt_at="Compound only: shunt-field ampere-turns per pole [A]",
+    series_turns="Compound only: series-field turns per pole [turns]",
+    brush_drop=_DOC["brush_drop"],
+    headers=_DOC["headers"],
+)
+def NW_CHECK_SECTIONS(
+    kind,
+    v_supply,
+    r_motor,
+    sections,
+    i_switch,
+    i_limit,
+    i_commutation,
+    mag_curve=None,
+    shunt_at=None,
+    series_turns=None,
+    brush_drop=None,
+    headers=None,
+):
+    """Peak current per notch of a given set of starter sections, with a verdict against peak and commutation limits."""
+    chosen = option("kind", kind, MOTOR_KINDS)
+    if chosen == "shunt":
+        motor = _shunt_motor(number("r_motor", r_motor, "ohm"))
+    elif chosen == "series":
+        motor = SeriesMotor(number("r_motor", r_motor, "ohm"), _series_curve(mag_curve, optional=True))
+    else:
+        motor = _compound_motor(r_motor, mag_curve, shunt_at, series_turns)
+    result = check_sections(
+        motor,
+        number("v_supply", v_supply, "V"),
+        column("sections", sections, "ohm"),
+        number("i_switch", i_switch, "A"),
+        number("i_limit", i_limit, "A"),
+        number("i_commutation", i_commutation, "A"),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    steps = [*range(1, result.r_total_ohm.size), "run"]
+    rows = zip(steps, result.r_total_ohm, result.r_section_ohm, result.i_peak_a, result.i_switch_a, result.verdict)
+    return spill(CHECK_HEADER, rows, flag("headers", headers, True))
+
+
+@cell_function(
+    tables=("mag_curve",),
+    v_supply=_DOC["v_supply"],
+    r_circuit=_DOC["r_circuit"],
+    current=_DOC["current"],
+    mag_curve=_DOC["mag_curve"],
+    mag_speed=_DOC["mag_speed"],
+    brush_drop=_DOC["brush_drop"],
+)
+def NW_SERIES_SPEED(v_supply, r_circuit, current, mag_curve, mag_speed, brush_drop=None):
+    """Speed of a DC series motor carrying a given current, from its magnetization curve [rpm]."""
+    motor = SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed))
+    v = number("v_supply", v_supply, "V")
+    drop = optional_number("brush_drop", brush_drop, 0.0, "V")
+    return each("current", current, "A", lambda i_a: float(steady_speed_rpm(motor, v, i_a, 0.0, drop)))
+
+
+@cell_function(
+    tables=("mag_curve",),
+    current=_DOC["current"],
+    mag_curve=_DOC["mag_curve"],
+    mag_speed=_DOC["mag_speed"],
+)
+def NW_SERIES_TORQUE(current, mag_curve, mag_speed):
+    """Developed torque of a DC series motor at a given current, from its magnetization curve [N·m]."""
+    motor = SeriesMotor(1.0, _series_curve(mag_curve, mag_speed))
+    return each("current", current, "A", lambda i_a: float(developed_torque_nm(motor, i_a)))
+
+
+@cell_function(
+    tables=("mag_curve",),
+    v_supply=_DOC["v_supply"],
+    r_circuit=_DOC["r_circuit"],
+    n_max="Highest safe speed of armature, gearing and load [rpm]",
+    mag_curve=_DOC["mag_curve"],
+    mag_speed=_DOC["mag_speed"],
+    brush_drop=_DOC["brush_drop"],
+)
+def NW_SERIES_MIN_LOAD(v_supply, r_circuit, n_max, mag_curve, mag_speed, brush_drop=None):
+    """Least armature current [A] and developed torque [N·m] that hold a series motor at or below n_max: one row."""
+    result = minimum_load(
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        number("v_supply", v_supply, "V"),
+        number("n_max", n_max, "rpm"),
+        0.0,
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    return [[result.i_a, result.torque_nm]]
+
+
+@cell_function(
+    tables=("mag_curve",),
+    v_supply=_DOC["v_supply"],
+    r_circuit=_DOC["r_circuit"],
+    mag_curve=_DOC["mag_curve"],
+    mag_speed=_DOC["mag_speed"],
+    brush_drop=_DOC["brush_drop"],
+)
+def NW_SERIES_RESIDUAL_SPEED(v_supply, r_circuit, mag_curve, mag_speed, brush_drop=None):
+    """Speed a series motor would reach unloaded on its residual flux alone, a runaway warning figure [rpm]."""
+    speed = residual_speed_rpm(
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        number("v_supply", v_supply, "V"),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
+    if np.isinf(speed):
+        return "unlimited: the curve has no residual flux at 0 A, so the unloaded motor runs away"
+    return speed
+
+
+@cell_function(
+    v_rated="Rated armature voltage [V]",
+    i_rated="Rated armature current [A]",
+    n_rated="Rated speed [rpm]",
+    r_armature="Armature-circuit resistance [ohm]",
+    brush_drop=_DOC["brush_drop"],
+)
+def NW_SHUNT_KPHI(v_rated, i_rated, n_rated, r_armature, brush_drop=None):
+    """Back-EMF constant of a shunt or separately excited motor from its rating plate [V/rpm]."""
+    return k_phi_from_rating(
+        number("v_rated", v_rated, "V"),
+        number("i_rated", i_rated, "A"),
+        number("n_rated", n_rated, "rpm"),
+        number("r_armature", r_armature, "ohm"),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )

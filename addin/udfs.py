@@ -1,0 +1,10 @@
+"""Every Notchwise spreadsheet function, for xlwings' "UDF Modules" setting (``addin.udfs``).
+
+The functions live in one module per subject; this module gathers them so that
+xlwings' "Import Functions" finds them all in one place.
+"""
+
+from .starters import *  # noqa: F401,F403
+from .starters import __all__ as _starters
+
+__all__ = [*_starters]

@@ -1,0 +1,563 @@
+r"""Steady-state models of DC motors: shunt (separately excited), series and compound.
+
+All three obey the two laws of the DC machine [1]_:
+
+.. math::
+
+    E = k\Phi\,n, \qquad T = \frac{60}{2\pi}\,k\Phi\,I, \qquad V = E + I R + V_b
+
+with :math:`k\Phi` in V/rpm (back-EMF per rpm at the flux set by the field),
+:math:`n` in rpm, :math:`I` the armature current in A, :math:`R` the resistance
+of the armature circuit, and :math:`V_b` the total brush drop. The torque is the
+developed (air-gap) torque; the shaft torque is less by friction, windage and
+iron loss.
+
+The flux of a series or compound motor follows its field excitation along the
+magnetization curve: the open-circuit EMF measured at a stated speed against the
+field current (series) or the field ampere-turns per pole (compound). Because
+:math:`E \propto \Phi n`, :math:`k\Phi(I) = E_{mag}(I) / n_{mag}`. Between the
+measured points the curve is interpolated with the shape-preserving piecewise
+cubic Hermite interpolant of Fritsch and Carlson [2]_, which never overshoots
+a monotone table.
+
+References
+----------
+.. [1] A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, *Electric Machinery*,
+   6th ed., McGraw-Hill, 2003, ch. 7 (DC machines), Eqs. 7.1-7.8.
+.. [2] F. N. Fritsch and R. E. Carlson, "Monotone piecewise cubic
+   interpolation," *SIAM J. Numer. Anal.*, vol. 17, no. 2, pp. 238-246, 1980.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+from scipy.interpolate import PchipInterpolator
+from scipy.optimize import brentq
+
+from .errors import (
+    DesignError,
+    InputError,
+    as_float_array,
+    quantity,
+    require_non_negative,
+    require_positive,
+)
+
+__all__ = [
+    "NM_PER_V_A_PER_RPM",
+    "MagnetizationCurve",
+    "magnetization_curve",
+    "ShuntMotor",
+    "SeriesMotor",
+    "CompoundMotor",
+    "k_phi_from_rating",
+    "back_emf_v",
+    "torque_nm",
+    "effective_supply_v",
+    "steady_speed_rpm",
+    "developed_torque_nm",
+    "residual_speed_rpm",
+    "MinimumLoad",
+    "minimum_load",
+]
+
+#: Torque per (V/rpm · A): T = k_phi · I · 60 / (2 pi), from P = E I = T omega. [N·m/(V·A/rpm)]
+NM_PER_V_A_PER_RPM = 60.0 / (2.0 * np.pi)
+
+
+@dataclass(frozen=True)
+class MagnetizationCurve:
+    """Open-circuit EMF of a machine against its field excitation at one speed.
+
+    Build it with :func:`magnetization_curve`, which validates the table.
+
+    Attributes
+    ----------
+    excitation : numpy.ndarray
+        Field excitation, strictly rising: field current [A] for a series
+        motor, field ampere-turns per pole [A] for a compound motor.
+    emf_v : numpy.ndarray
+        Open-circuit EMF at each excitation, not falling. [V]
+    speed_rpm : float or None
+        Speed at which the EMF was measured; None where only flux ratios
+        are needed (grading). [rpm]
+    excitation_name : str
+        What the excitation is, for messages ("current" or "ampere-turns").
+    """
+
+    excitation: np.ndarray
+    emf_v: np.ndarray
+    speed_rpm: float | None
+    excitation_name: str = "current"
+    _interpolant: PchipInterpolator = field(init=False, repr=False, compare=False)
+
+    def __post_init__(self):
+        object.__setattr__(self, "_interpolant", PchipInterpolator(self.excitation, self.emf_v))
+
+    @property
+    def max_excitation(self) -> float:
+        """Highest excitation in the table; the curve is not extrapolated. [A]"""
+        return float(self.excitation[-1])
+
+    def emf_at(self, excitation):
+        """Open-circuit EMF at ``excitation`` and the curve's own speed. [V]
+
+        Raises
+        ------
+        InputError
+            Where an excitation lies beyond the last point of the table: a
+            saturating curve must not be guessed.
+        """
+        x = np.asarray(excitation, dtype=float)
+        if np.any(x > self.max_excitation * (1.0 + 1e-12)):
+            raise InputError(
+                f"the magnetization curve ends at {self.excitation_name} "
+                f"{quantity(self.max_excitation, 'A')}; {quantity(float(np.max(x)), 'A')} "
+                "lies beyond it: extend the curve"
+            )
+        emf = self._interpolant(np.clip(x, 0.0, None))
+        return emf if emf.ndim else float(emf)
+
+    def k_phi_at(self, excitation):
+        """Back-EMF per rpm, :math:`k\\Phi = E_{mag}/n_{mag}`, at ``excitation``. [V/rpm]"""
+        if self.speed_rpm is None:
+            raise InputError("mag_speed is needed for speed or torque: the speed at which mag_curve was measured")
+        return self.emf_at(excitation) / self.speed_rpm
+
+
+def magnetization_curve(
+    excitation, emf_v, speed_rpm: float | None = None, excitation_name: str = "current"
+) -> MagnetizationCurve:
+    """Validate a magnetization table and return it as a curve.
+
+    Parameters
+    ----------
+    excitation : array_like
+        Field current [A] (series) or ampere-turns per pole [A] (compound),
+        at least 2 points, at or above zero and strictly rising.
+    emf_v : array_like
+        Open-circuit EMF at each point, at or above zero and not falling;
+        a residual EMF at zero excitation is allowed. [V]
+    speed_rpm : float, optional
+        Speed at which the curve was measured; leave out where only flux
+        ratios are needed (grading). [rpm]
+    excitation_name : str, optional
+        Word used for the excitation in messages.
+
+    Returns
+    -------
+    MagnetizationCurve
+        When the table does not start at zero excitation, the origin
+        (0, 0 V) is put before it: no residual flux is assumed.
+    """
+    x = as_float_array("mag_curve " + excitation_name, excitation, "A", min_length=2)
+    e = as_float_array("mag_curve EMF", emf_v, "V", min_length=2)
+    if x.size != e.size:
+        raise InputError(f"mag_curve has {x.size} {excitation_name} values but {e.size} EMF values")
+    if x[0] < 0.0:
+        raise InputError(f"mag_curve {excitation_name} ({quantity(x[0], 'A')}) must not be negative")
+    if e[0] < 0.0:
+        raise InputError(f"mag_curve EMF ({quantity(e[0], 'V')}) must not be negative")
+    rises = np.diff(x)
+    if np.any(rises <= 0.0):
+        k = int(np.argmax(rises <= 0.0))
+        raise InputError(
+            f"mag_curve {excitation_name} must rise strictly: point {k + 2} "
+            f"({quantity(x[k + 1], 'A')}) does not exceed point {k + 1} ({quantity(x[k], 'A')})"
+        )
+    falls = np.diff(e)
+    if np.any(falls < 0.0):
+        k = int(np.argmax(falls < 0.0))
+        raise InputError(
+            f"mag_curve EMF must not fall: point {k + 2} ({quantity(e[k + 1], 'V')}) "
+            f"is below point {k + 1} ({quantity(e[k], 'V')})"
+        )
+    if e[-1] <= 0.0:
+        raise InputError("mag_curve EMF is zero throughout: the machine has no flux")
+    if x[0] > 0.0:
+        x, e = np.concatenate(([0.0], x)), np.concatenate(([0.0], e))
+    speed = None if speed_rpm is None else require_positive("mag_speed", speed_rpm, "rpm")
+    return MagnetizationCurve(x, e, speed, excitation_name)
+
+
+@dataclass(frozen=True)
+class ShuntMotor:
+    """Shunt or separately excited motor with its field held constant.
+
+    Attributes
+    ----------
+    r_ohm : float
+        Resistance of the armature circuit (armature, interpoles, brushes'
+        contact resistance). [ohm]
+    k_phi_v_per_rpm : float
+        Back-EMF per rpm at the working field. [V/rpm]
+    """
+
+    r_ohm: float
+    k_phi_v_per_rpm: float
+
+    i_max_a = np.inf  #: no saturation table limits the current
+
+    def k_phi(self, i_a):
+        """Back-EMF per rpm at armature current ``i_a``: constant. [V/rpm]"""
+        return np.full_like(np.asarray(i_a, dtype=float), self.k_phi_v_per_rpm)[()]
+
+    def relative_flux(self, i_a):
+        """A quantity proportional to flux at ``i_a``; only its ratios are used. [-]"""
+        return np.ones_like(np.asarray(i_a, dtype=float))[()]
+
+
+@dataclass(frozen=True)
+class SeriesMotor:
+    """Series motor: the armature current is the field current.
+
+    Attributes
+    ----------
+    r_ohm : float
+        Resistance of armature plus series field (and interpoles). [ohm]
+    curve : MagnetizationCurve or None
+        EMF against armature current at ``curve.speed_rpm``. With None the
+        flux is taken proportional to current, which is enough for grading
+        (only flux ratios enter) but not for speed or torque.
+    """
+
+    r_ohm: float
+    curve: MagnetizationCurve | None = None
+
+    @property
+    def i_max_a(self) -> float:
+        """Highest current the magnetization curve covers. [A]"""
+        return np.inf if self.curve is None else self.curve.max_excitation
+
+    def k_phi(self, i_a):
+        """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
+        if self.curve is None:
+            raise InputError("mag_curve is needed for speed or torque of a series motor")
+        return self.curve.k_phi_at(i_a)
+
+    def relative_flux(self, i_a):
+        """A quantity proportional to flux at ``i_a``; only its ratios are used. [-]"""
+        if self.curve is None:
+            return np.asarray(i_a, dtype=float)[()]
+        return self.curve.emf_at(i_a)
+
+
+@dataclass(frozen=True)
+class CompoundMotor:
+    """Cumulative compound motor: shunt and series fields aid each other.
+
+    The shunt field is fed from the supply at constant current, so its
+    ampere-turns are constant; the series ampere-turns follow the armature
+    current: :math:`F = F_{sh} + N_{se} I`.
+
+    Attributes
+    ----------
+    r_ohm : float
+        Resistance of armature plus series field. [ohm]
+    curve : MagnetizationCurve
+        EMF against field ampere-turns per pole at ``curve.speed_rpm``.
+    shunt_at : float
+        Shunt-field ampere-turns per pole. [A]
+    series_turns : float
+        Series-field turns per pole. [-]
+    """
+
+    r_ohm: float
+    curve: MagnetizationCurve
+    shunt_at: float
+    series_turns: float
+
+    @property
+    def i_max_a(self) -> float:
+        """Highest armature current the magnetization curve covers. [A]"""
+        return (self.curve.max_excitation - self.shunt_at) / self.series_turns
+
+    def field_at(self, i_a):
+        """Total field ampere-turns per pole, :math:`F_{sh} + N_{se} I`. [A]"""
+        return self.shunt_at + self.series_turns * np.asarray(i_a, dtype=float)
+
+    def k_phi(self, i_a):
+        """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
+        return self.curve.k_phi_at(self.field_at(i_a))
+
+    def relative_flux(self, i_a):
+        """Curve EMF at the total field ampere-turns for ``i_a``. [V]"""
+        return self.curve.emf_at(self.field_at(i_a))
+
+
+def k_phi_from_rating(
+    v_rated_v: float, i_rated_a: float, n_rated_rpm: float, r_armature_ohm: float, brush_drop_v: float = 0.0
+) -> float:
+    r"""Back-EMF constant of a shunt motor from its rating plate.
+
+    Parameters
+    ----------
+    v_rated_v : float
+        Rated armature voltage. [V]
+    i_rated_a : float
+        Rated armature current. [A]
+    n_rated_rpm : float
+        Rated speed. [rpm]
+    r_armature_ohm : float
+        Armature-circuit resistance. [ohm]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+
+    Returns
+    -------
+    float
+        :math:`k\Phi`. [V/rpm]
+
+    Notes
+    -----
+    .. math:: k\Phi = \frac{V - I R_a - V_b}{n}
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003,
+       Eq. 7.8 (terminal equation of a DC motor).
+    """
+    v = require_positive("v_rated", v_rated_v, "V")
+    i = require_positive("i_rated", i_rated_a, "A")
+    n = require_positive("n_rated", n_rated_rpm, "rpm")
+    r = require_positive("r_armature", r_armature_ohm, "ohm")
+    emf = v - i * r - require_non_negative("brush_drop", brush_drop_v, "V")  # Eq. 7.8 of [1]
+    if emf <= 0.0:
+        raise DesignError(
+            f"the rating gives no back-EMF: i_rated x r_armature + brush_drop "
+            f"({quantity(i * r + brush_drop_v, 'V')}) is not below v_rated ({quantity(v, 'V')})"
+        )
+    return emf / n
+
+
+def back_emf_v(k_phi_v_per_rpm, n_rpm):
+    r"""Back-EMF of a DC machine at a speed.
+
+    Parameters
+    ----------
+    k_phi_v_per_rpm : float or array_like
+        Machine constant times flux. [V/rpm]
+    n_rpm : float or array_like
+        Shaft speed. [rpm]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Back-EMF. [V]
+
+    Notes
+    -----
+    .. math:: E = k\Phi n
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003, Eq. 7.7.
+    """
+    return np.multiply(k_phi_v_per_rpm, n_rpm)  # Eq. 7.7 of [1]
+
+
+def torque_nm(k_phi_v_per_rpm, i_a):
+    r"""Developed torque of a DC machine.
+
+    Parameters
+    ----------
+    k_phi_v_per_rpm : float or array_like
+        Machine constant times flux. [V/rpm]
+    i_a : float or array_like
+        Armature current. [A]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Developed (air-gap) torque. [N·m]
+
+    Notes
+    -----
+    From power balance :math:`E I = T \omega` with :math:`\omega = 2\pi n/60`:
+
+    .. math:: T = \frac{60}{2\pi} k\Phi I
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003, Eqs. 7.1, 7.7.
+    """
+    return NM_PER_V_A_PER_RPM * np.multiply(k_phi_v_per_rpm, i_a)  # Eqs. 7.1, 7.7 of [1]
+
+
+def effective_supply_v(v_supply_v: float, brush_drop_v: float = 0.0) -> float:
+    """Supply voltage less the brush drop, checked to be above zero. [V]"""
+    v = require_positive("v_supply", v_supply_v, "V")
+    drop = require_non_negative("brush_drop", brush_drop_v, "V")
+    if drop >= v:
+        raise InputError(f"brush_drop ({quantity(drop, 'V')}) must be below v_supply ({quantity(v, 'V')})")
+    return v - drop
+
+
+def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0, brush_drop_v: float = 0.0):
+    r"""Speed at which a motor carries a given current.
+
+    Parameters
+    ----------
+    motor : ShuntMotor, SeriesMotor or CompoundMotor
+        The machine; its ``r_ohm`` is included in the circuit.
+    v_supply_v : float
+        Supply voltage. [V]
+    i_a : float or array_like
+        Armature current, from zero up to the stall current. [A]
+    r_external_ohm : float, optional
+        Resistance in series outside the motor. [ohm]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Speed; ``inf`` where the flux is zero (a series motor with no
+        residual flux at zero current runs away). [rpm]
+
+    Notes
+    -----
+    .. math:: n = \frac{V - V_b - I (R_m + R_x)}{k\Phi(I)}
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003, Eq. 7.8.
+    """
+    v = effective_supply_v(v_supply_v, brush_drop_v)
+    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
+    if np.any(i < 0.0):
+        raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
+    i_stall = v / r
+    if np.any(i > i_stall):
+        raise InputError(
+            f"current ({quantity(float(np.max(i)), 'A')}) is above the stall current "
+            f"{quantity(i_stall, 'A')} (supply less brush drop over circuit resistance)"
+        )
+    k_phi = np.asarray(motor.k_phi(i), dtype=float)
+    with np.errstate(divide="ignore"):
+        n = np.where(k_phi > 0.0, (v - i * r) / np.where(k_phi > 0.0, k_phi, 1.0), np.inf)  # Eq. 7.8 of [1]
+    return n[()]
+
+
+def developed_torque_nm(motor, i_a):
+    r"""Developed torque of a motor at armature current ``i_a``.
+
+    Parameters
+    ----------
+    motor : ShuntMotor, SeriesMotor or CompoundMotor
+        The machine.
+    i_a : float or array_like
+        Armature current, at or above zero. [A]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        Developed torque :math:`T = \frac{60}{2\pi} k\Phi(I)\,I`. [N·m]
+    """
+    i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
+    if np.any(i < 0.0):
+        raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
+    return torque_nm(motor.k_phi(i), i)[()]
+
+
+def residual_speed_rpm(motor, v_supply_v: float, brush_drop_v: float = 0.0) -> float:
+    r"""Speed an unloaded motor tends to as its current tends to zero.
+
+    Parameters
+    ----------
+    motor : SeriesMotor or CompoundMotor
+        The machine, with its magnetization curve.
+    v_supply_v : float
+        Supply voltage. [V]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+
+    Returns
+    -------
+    float
+        :math:`n_0 = (V - V_b)/k\Phi(0)`; ``inf`` where the curve has no
+        residual flux: the series motor runs away. A warning figure: friction
+        and windage hold the real speed lower. [rpm]
+    """
+    k_phi_zero = float(motor.k_phi(0.0))
+    v = effective_supply_v(v_supply_v, brush_drop_v)
+    return v / k_phi_zero if k_phi_zero > 0.0 else np.inf  # Eq. 7.8 of [1] at I = 0
+
+
+@dataclass(frozen=True)
+class MinimumLoad:
+    """The least load that holds a series motor at or below a safe speed.
+
+    Attributes
+    ----------
+    i_a : float
+        Least armature current. [A]
+    torque_nm : float
+        Developed torque at that current; the load (with friction and
+        windage) must be at least this. [N·m]
+    n_residual_rpm : float
+        Speed on residual flux alone (current tending to zero); ``inf`` with
+        no residual flux. A warning figure of the runaway. [rpm]
+    """
+
+    i_a: float
+    torque_nm: float
+    n_residual_rpm: float
+
+
+def minimum_load(
+    motor, v_supply_v: float, n_max_rpm: float, r_external_ohm: float = 0.0, brush_drop_v: float = 0.0
+) -> MinimumLoad:
+    r"""Least current and torque that keep a series or compound motor below a speed.
+
+    Speed falls as current rises (:func:`steady_speed_rpm`), so the least
+    safe current is the root of :math:`V - V_b - I R = n_{max}\,k\Phi(I)`,
+    found by Brent's method between zero and the lesser of the stall current
+    and the end of the magnetization curve.
+
+    Parameters
+    ----------
+    motor : SeriesMotor or CompoundMotor
+        The machine, with its magnetization curve.
+    v_supply_v : float
+        Supply voltage. [V]
+    n_max_rpm : float
+        Highest safe speed (mechanical limit of armature, gearing or load). [rpm]
+    r_external_ohm : float, optional
+        Resistance in series outside the motor. [ohm]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+
+    Returns
+    -------
+    MinimumLoad
+        Current 0 A and torque 0 N·m where even the no-load speed is safe.
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003,
+       sec. 7.6 (series motors must not be run unloaded).
+    .. [2] R. P. Brent, *Algorithms for Minimization without Derivatives*,
+       Prentice-Hall, 1973, ch. 4.
+    """
+    v = effective_supply_v(v_supply_v, brush_drop_v)
+    n_max = require_positive("n_max", n_max_rpm, "rpm")
+    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    n_residual = residual_speed_rpm(motor, v_supply_v, brush_drop_v)
+
+    def surplus_v(i_a: float) -> float:
+        return v - i_a * r - n_max * float(motor.k_phi(i_a))
+
+    if surplus_v(0.0) <= 0.0:
+        return MinimumLoad(0.0, 0.0, n_residual)
+    i_top = min(v / r, motor.i_max_a)
+    if surplus_v(i_top) > 0.0:
+        raise DesignError(
+            f"the speed stays above n_max ({quantity(n_max, 'rpm')}) up to "
+            f"{quantity(i_top, 'A')}, the end of the magnetization curve: extend the curve or check n_max"
+        )
+    i_min = brentq(surplus_v, 0.0, i_top, xtol=1e-9, rtol=1e-12)  # Brent's method [2]
+    return MinimumLoad(i_min, float(developed_torque_nm(motor, i_min)), n_residual)

@@ -1,0 +1,122 @@
+"""Exceptions and argument checks shared by every core module.
+
+Every check names the argument, its value with unit and the limit it broke, so
+that the same text can be shown to a designer in a spreadsheet cell, e.g.
+``i_switch (260 A) must be below i_peak (250 A)``.
+"""
+
+from __future__ import annotations
+
+import math
+from numbers import Real
+
+import numpy as np
+
+__all__ = [
+    "InputError",
+    "InputTypeError",
+    "DesignError",
+    "quantity",
+    "as_float",
+    "as_float_array",
+    "require_positive",
+    "require_non_negative",
+    "require_below",
+    "require_count",
+    "choose",
+]
+
+
+class InputError(ValueError):
+    """An argument lies outside the range in which the formula holds."""
+
+
+class InputTypeError(TypeError):
+    """An argument is of the wrong kind: text or blank where a number is needed."""
+
+
+class DesignError(ValueError):
+    """The arguments are valid one by one but no design meets them together."""
+
+
+def quantity(value: float, unit: str = "") -> str:
+    """Format a value with its unit for a message, e.g. ``260 A``."""
+    text = f"{value:.4g}" if isinstance(value, Real) else repr(value)
+    return f"{text} {unit}".rstrip()
+
+
+def as_float(name: str, value, unit: str = "") -> float:
+    """Return ``value`` as a finite float or raise naming ``name``.
+
+    Booleans, text, blanks (None), NaN and infinities are refused: in a
+    spreadsheet they are almost always a wrong cell reference.
+    """
+    if value is None or (isinstance(value, str) and not value.strip()):
+        raise InputTypeError(f"{name} is empty; a number{_in(unit)} is needed")
+    if isinstance(value, bool) or not isinstance(value, (Real, np.number)):
+        raise InputTypeError(f"{name} ({value!r}) is not a number{_in(unit)}")
+    number = float(value)
+    if not math.isfinite(number):
+        raise InputError(f"{name} ({number}) must be a finite number{_in(unit)}")
+    return number
+
+
+def as_float_array(name: str, values, unit: str = "", min_length: int = 1) -> np.ndarray:
+    """Return a 1-D float array of finite numbers or raise naming ``name``."""
+    if values is None:
+        raise InputTypeError(f"{name} is empty; numbers{_in(unit)} are needed")
+    flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+    numbers = np.array([as_float(f"{name} entry {k + 1}", v, unit) for k, v in enumerate(flat)])
+    if numbers.size < min_length:
+        raise InputError(f"{name} has {numbers.size} values; at least {min_length} are needed")
+    return numbers
+
+
+def require_positive(name: str, value: float, unit: str = "") -> float:
+    """Return ``value`` if it is a finite number above zero."""
+    number = as_float(name, value, unit)
+    if number <= 0.0:
+        raise InputError(f"{name} ({quantity(number, unit)}) must be above zero")
+    return number
+
+
+def require_non_negative(name: str, value: float, unit: str = "") -> float:
+    """Return ``value`` if it is a finite number at or above zero."""
+    number = as_float(name, value, unit)
+    if number < 0.0:
+        raise InputError(f"{name} ({quantity(number, unit)}) must not be negative")
+    return number
+
+
+def require_below(name: str, value: float, limit_name: str, limit: float, unit: str = "") -> float:
+    """Return ``value`` if it is strictly below ``limit``."""
+    if not value < limit:
+        raise InputError(
+            f"{name} ({quantity(value, unit)}) must be below {limit_name} ({quantity(limit, unit)})"
+        )
+    return value
+
+
+def require_count(name: str, value, low: int, high: int) -> int:
+    """Return ``value`` as an int if it is a whole number in ``[low, high]``."""
+    number = as_float(name, value)
+    if number != int(number):
+        raise InputError(f"{name} ({number:g}) must be a whole number")
+    if not low <= number <= high:
+        raise InputError(f"{name} ({number:g}) must be from {low} to {high}")
+    return int(number)
+
+
+def choose(name: str, value, options) -> str:
+    """Return the option that ``value`` names, case-insensitively, or list the valid ones."""
+    if not isinstance(value, str) or not value.strip():
+        raise InputTypeError(f"{name} ({value!r}) must be one of: {', '.join(options)}")
+    wanted = " ".join(value.split()).casefold()
+    for option in options:
+        if option.casefold() == wanted:
+            return option
+    raise InputError(f"{name} ({value!r}) must be one of: {', '.join(options)}")
+
+
+def _in(unit: str) -> str:
+    return f" in {unit}" if unit else ""
