@@ -1,0 +1,75 @@
+"""Benchmark: median time per call, core alone and through the add-in layer.
+
+Run with ``python -m tests.benchmark``; it prints figures and asserts nothing
+(speed targets are read off, never tested by timing). Each case is a pair of
+zero-argument callables; add yours to ``CASES`` under your subject.
+"""
+
+from __future__ import annotations
+
+import statistics
+import timeit
+
+import numpy as np
+
+from addin import udfs
+from formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
+from formulas.grading import check_sections, grade_uniform
+
+CURVE_ROWS = [[0.0, 6.0], [40.0, 62.0], [80.0, 112.0], [120.0, 150.0], [160.0, 178.0], [220.0, 205.0],
+              [300.0, 228.0], [400.0, 246.0], [500.0, 258.0]]
+CURVE_TABLE = np.array(CURVE_ROWS)
+SHUNT = ShuntMotor(0.085, 0.375)
+
+
+def series_motor() -> SeriesMotor:
+    """The hoist motor built from its table, as every cell call does: the curve's fit is core work."""
+    return SeriesMotor(0.062, magnetization_curve(CURVE_TABLE[:, 0], CURVE_TABLE[:, 1], 700.0))
+
+
+#: name -> (core call, add-in call, target in ms for the core call)
+CASES = {
+    "grade shunt": (
+        lambda: grade_uniform(SHUNT, 460.0, 380.0, 210.0, None, 2.0),
+        lambda: udfs.NW_GRADE_SHUNT(460.0, 0.085, 380.0, 210.0, None, 2.0, None),
+        1.0,
+    ),
+    "grade series (curve)": (
+        lambda: grade_uniform(series_motor(), 230.0, 420.0, 290.0, None, 2.0),
+        lambda: udfs.NW_GRADE_SERIES(230.0, 0.062, 420.0, 290.0, CURVE_ROWS, None, 2.0, None),
+        1.0,
+    ),
+    "check sections (series)": (
+        lambda: check_sections(series_motor(), 230.0, [0.19, 0.125, 0.095, 0.07], 290.0, 420.0, 480.0, 2.0),
+        lambda: udfs.NW_CHECK_SECTIONS("series", 230.0, 0.062, [[0.19], [0.125], [0.095], [0.07]], 290.0, 420.0,
+                                       480.0, CURVE_ROWS, None, None, 2.0, None),
+        1.0,
+    ),
+    "series speed": (
+        lambda: steady_speed_rpm(series_motor(), 230.0, 200.0, 0.0, 2.0),
+        lambda: udfs.NW_SERIES_SPEED(230.0, 0.062, 200.0, CURVE_ROWS, 700.0, 2.0),
+        1.0,
+    ),
+    "series torque": (
+        lambda: developed_torque_nm(series_motor(), 200.0),
+        lambda: udfs.NW_SERIES_TORQUE(200.0, CURVE_ROWS, 700.0),
+        1.0,
+    ),
+}
+
+
+def median_ms(call, repeat: int = 7) -> float:
+    """Median over ``repeat`` runs of the time per call, in ms."""
+    runs = timeit.Timer(call).autorange()[0]
+    return statistics.median(t / runs for t in timeit.repeat(call, number=runs, repeat=repeat)) * 1e3
+
+
+def main() -> None:
+    print(f"{'case':32s} {'core ms':>9s} {'add-in ms':>10s} {'layer adds µs':>14s} {'target ms':>10s}")
+    for name, (core, cell, target) in CASES.items():
+        core_ms, cell_ms = median_ms(core), median_ms(cell)
+        print(f"{name:32s} {core_ms:9.4f} {cell_ms:10.4f} {1e3 * (cell_ms - core_ms):14.1f} {target:10.2f}")
+
+
+if __name__ == "__main__":
+    main()

@@ -1,0 +1,162 @@
+"""The spreadsheet contract: what Excel, through xlwings, needs of every function.
+
+Each function of ``addin.udfs`` is registered under xlwings' real decorators,
+has its VBA wrapper written by xlwings' own writer (as "Import Functions" does),
+and is called through xlwings' own converters with the raw values Excel passes:
+floats, text, booleans, None for a blank, tuples of rows for a range, and the
+"missing" marker for a skipped optional argument. A function Excel could not
+import, or that raises into a cell, fails here.
+
+Every function must have an entry in ``EXAMPLES``; add one with each new function.
+"""
+
+from __future__ import annotations
+
+import inspect
+import io
+import re
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from tests.xlwings_standin import EXCEL_MISSING, call_like_excel, real_xlwings
+
+SERIES_CURVE = (("current A", "EMF V"), (0.0, 5.0), (50.0, 120.0), (100.0, 200.0), (200.0, 290.0), (400.0, 350.0))
+COMPOUND_CURVE = ((0.0, 0.0), (1000.0, 100.0), (3000.0, 200.0), (6000.0, 260.0), (9000.0, 290.0))
+M = EXCEL_MISSING
+
+#: Valid raw arguments, as Excel passes them, for every spreadsheet function.
+EXAMPLES = {
+    "NW_GRADE_SHUNT": (220.0, 0.05, 300.0, 150.0, M, M, M),
+    "NW_GRADE_SERIES": (220.0, 0.05, 300.0, 150.0, SERIES_CURVE, M, 2.0, True),
+    "NW_GRADE_COMPOUND": (220.0, 0.05, 300.0, 150.0, COMPOUND_CURVE, 1500.0, 10.0, M, M, M),
+    "NW_CHECK_SECTIONS": ("Series", 220.0, 0.05, ((0.4,), (0.3,)), 150.0, 310.0, 350.0, SERIES_CURVE, M, M, M, M),
+    "NW_SERIES_SPEED": (220.0, 0.1, 100.0, SERIES_CURVE, 800.0, M),
+    "NW_SERIES_TORQUE": (((50.0,), (100.0,)), SERIES_CURVE, 800.0),
+    "NW_SERIES_MIN_LOAD": (220.0, 0.1, 2000.0, SERIES_CURVE, 800.0, M),
+    "NW_SERIES_RESIDUAL_SPEED": (220.0, 0.1, SERIES_CURVE, 800.0, M),
+    "NW_SHUNT_KPHI": (220.0, 100.0, 1000.0, 0.1, M),
+}
+
+#: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
+VBA_KEYWORDS = set(
+    """and as boolean byref byte byval call case class const currency date decimal declare defbool
+    defbyte defcur defdate defdbl defdec defint deflng defobj defsng defstr defvar dim do double each
+    else elseif empty end endif enum eqv erase error event exit false for friend function get global
+    gosub goto if imp implements in integer is let lib like load long loop lset me mod new next not
+    nothing null object on option optional or paramarray preserve private property public raiseevent
+    redim rem resume return rset select set single static step stop string sub then to true type
+    typeof unload until variant wend while with withevents xor""".split()
+)
+
+
+@pytest.fixture(scope="module")
+def excel():
+    with real_xlwings() as loaded:
+        yield loaded
+
+
+def functions(udfs):
+    return [getattr(udfs, name) for name in udfs.__all__]
+
+
+def test_every_function_is_registered_and_has_an_example(excel):
+    udfs, _, _ = excel
+    names = set(udfs.__all__)
+    assert names == set(EXAMPLES), "every spreadsheet function needs an entry in EXAMPLES"
+    for func in functions(udfs):
+        assert hasattr(func, "__xlfunc__"), func.__name__
+        assert func.__xlfunc__["category"] == "Notchwise"
+
+
+def test_xlwings_writes_a_vba_wrapper_excel_can_import(excel):
+    udfs, xlwings_udfs, _ = excel
+    book = type("Book", (), {"Name": "notchwise-reference.xlsm"})()
+    out = io.StringIO()
+    xlwings_udfs.generate_vba_wrapper("addin.udfs", udfs, out, book)
+    vba = out.getvalue()
+    for func in functions(udfs):
+        params = inspect.signature(func).parameters.values()
+        wanted = ", ".join(("Optional " if p.default is not p.empty else "") + p.name for p in params)
+        assert f"Function {func.__name__}({wanted})" in vba
+        assert f'XLPy.CallUDF("addin.udfs", "{func.__name__}"' in vba
+    assert all(len(line) <= 1024 for line in vba.splitlines()), "VBA lines are limited to 1024 characters"
+
+
+def test_names_and_help_fit_excel(excel):
+    udfs, _, _ = excel
+    for func in functions(udfs):
+        doc = func.__xlfunc__["ret"]["doc"]
+        assert len(doc) < 255, f"{func.__name__}: the wizard cuts descriptions at 255 characters"
+        assert doc.count(". ") == 0 and doc.endswith((".", "]")), f"{func.__name__}: one sentence"
+        assert re.fullmatch(r"NW_[A-Z0-9_]+", func.__name__)
+        for arg in func.__xlfunc__["args"]:
+            assert re.fullmatch(r"[A-Za-z][A-Za-z0-9_]{0,30}", arg["name"]), arg["name"]
+            assert arg["name"].lower() not in VBA_KEYWORDS, f"{func.__name__}: {arg['name']} is a VBA keyword"
+            assert not arg["doc"].startswith("Positional argument"), f"{func.__name__}.{arg['name']} has no help"
+            assert len(arg["doc"]) < 255
+            assert re.search(r"\[[^\]]+\]", arg["doc"]), f"{func.__name__}.{arg['name']}: unit in brackets"
+
+
+def _excel_types_only(value) -> bool:
+    cells = value if isinstance(value, list) else [[value]]
+    return all(isinstance(c, (float, int, str, bool)) and not isinstance(c, type(None)) for row in cells for c in row)
+
+
+@pytest.mark.parametrize("name", sorted(EXAMPLES))
+def test_valid_example_gives_numbers_through_the_converters(excel, name):
+    udfs, _, conversion = excel
+    result = call_like_excel(conversion, getattr(udfs, name), EXAMPLES[name])
+    assert _excel_types_only(result)
+    flat = [c for row in result for c in row] if isinstance(result, list) else [result]
+    assert not any(isinstance(c, str) and c.startswith("Error") for c in flat), result
+
+
+#: Raw cell values a careless sheet passes; -2146826281 is how COM hands over a #DIV/0! cell.
+BAD_VALUES = ["", "abc", None, True, -1.0, 0.0, -1e300, 1e300, ((1.0, "x"),), (("a",),), 1e-300, -2146826281]
+
+
+@settings(max_examples=300, deadline=None)
+@given(data=st.data())
+def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
+    udfs, _, conversion = excel
+    name = data.draw(st.sampled_from(sorted(EXAMPLES)))
+    raw = list(EXAMPLES[name])
+    position = data.draw(st.integers(0, len(raw) - 1))
+    raw[position] = data.draw(st.sampled_from(BAD_VALUES) | st.floats(allow_nan=False, allow_infinity=False))
+    result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
+    assert _excel_types_only(result)
+    if isinstance(result, list) and len(result) == 1 and len(result[0]) == 1:
+        result = result[0][0]
+    if isinstance(result, str) and result.startswith("Error"):
+        assert "internal fault" not in result, result
+
+
+@pytest.mark.parametrize(
+    "name, position, bad, words",
+    [
+        ("NW_GRADE_SHUNT", 0, "abc", "v_supply ('abc') is not a number in V"),
+        ("NW_GRADE_SHUNT", 1, None, "r_armature is empty"),
+        ("NW_GRADE_SHUNT", 3, 400.0, "i_switch (400 A) must be below i_peak (300 A)"),
+        ("NW_GRADE_SHUNT", 1, -0.05, "r_armature (-0.05 ohm) must be above zero"),
+        ("NW_GRADE_SHUNT", 4, 99.0, "notches (99) must be from 1 to 30"),
+        ("NW_GRADE_SERIES", 4, (("I", "E"), (0.0, 10.0), (100.0, 5.0)), "EMF must not fall"),
+        ("NW_CHECK_SECTIONS", 0, "wound rotor", "kind ('wound rotor') must be one of: shunt, series, compound"),
+        ("NW_SERIES_SPEED", 2, 5000.0, "above the stall current"),
+    ],
+)
+def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
+    udfs, _, conversion = excel
+    raw = list(EXAMPLES[name])
+    raw[position] = bad
+    result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
+    text = result[0][0] if isinstance(result, list) else result
+    assert text.startswith("Error: ") and words in text, text
+
+
+def test_blank_optional_in_the_middle_means_its_default(excel):
+    udfs, _, conversion = excel
+    skipped = call_like_excel(conversion, udfs.NW_GRADE_SHUNT, (220.0, 0.05, 300.0, 150.0, M, 2.0, M))
+    blank = call_like_excel(conversion, udfs.NW_GRADE_SHUNT, (220.0, 0.05, 300.0, 150.0, None, 2.0, None))
+    assert skipped == blank and skipped[0][0] == "notch"

@@ -1,0 +1,1 @@
+"""The reference workbook of Notchwise and the demo cases it holds."""

@@ -1,0 +1,88 @@
+"""Demo cases: invented drives at the fictional Port of Merrow and Caldbeck Quarry.
+
+All motor data here are made up for the demonstration; they are no
+manufacturer's figures and no textbook problem. They are used by
+``notchwise demo`` and by the reference workbook, never as test references.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "DemoCase"]
+
+
+@dataclass(frozen=True)
+class DemoCase:
+    """One worked case: a title, its story and the cell arguments of its functions."""
+
+    key: str
+    title: str
+    story: str
+    inputs: dict = field(default_factory=dict)
+
+
+#: Main hoist of the Merrow quay crane no. 3: a 230 V DC series motor.
+HOIST = DemoCase(
+    key="hoist",
+    title="Merrow quay crane 3, main hoist (DC series motor)",
+    story=(
+        "A 230 V series-wound hoist motor on the Port of Merrow's quay crane 3, "
+        "started through a graded resistor with current-limit contactors."
+    ),
+    inputs={
+        "v_supply": 230.0,
+        "r_motor": 0.062,
+        "i_peak": 420.0,
+        "i_switch": 290.0,
+        "brush_drop": 2.0,
+        "mag_speed": 700.0,
+        "n_max": 2100.0,
+        # current [A], EMF [V] measured at mag_speed
+        "mag_curve": [
+            [0.0, 6.0],
+            [40.0, 62.0],
+            [80.0, 112.0],
+            [120.0, 150.0],
+            [160.0, 178.0],
+            [220.0, 205.0],
+            [300.0, 228.0],
+            [400.0, 246.0],
+            [500.0, 258.0],
+        ],
+    },
+)
+
+#: Drive of the Caldbeck Quarry overland conveyor: a 460 V separately excited motor.
+CONVEYOR = DemoCase(
+    key="conveyor",
+    title="Caldbeck Quarry overland conveyor (DC separately excited motor)",
+    story=(
+        "A 460 V separately excited motor driving the Caldbeck Quarry overland "
+        "conveyor, started on a definite number of notches."
+    ),
+    inputs={
+        "v_supply": 460.0,
+        "r_armature": 0.085,
+        "i_peak": 380.0,
+        "i_switch": 210.0,
+        "brush_drop": 2.0,
+        "k_phi": 0.375,
+    },
+)
+
+#: A contractor's proposed sections for the Merrow hoist, to be checked.
+CONTRACTOR = DemoCase(
+    key="contractor",
+    title="Contractor's proposal for the Merrow hoist starter",
+    story=(
+        "Sections proposed by the crane contractor for the quay crane 3 hoist, "
+        "checked against the drive's peak limit and the motor's commutation limit."
+    ),
+    inputs={
+        "sections": [0.190, 0.125, 0.095, 0.070],
+        "i_switch": 290.0,
+        "i_limit": 420.0,
+        "i_commutation": 480.0,
+    },
+)
