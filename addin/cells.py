@@ -30,6 +30,7 @@ __all__ = [
     "cell_function",
     "guard",
     "each",
+    "at_once",
     "number",
     "optional_number",
     "optional_count",
@@ -107,6 +108,22 @@ def each(name: str, value, unit: str, compute):
         return compute(number(name, value, unit))
     cells = _filled_cells(name, value, unit)
     return [[_cell(guard(lambda c=c, k=k: compute(number(f"{name} entry {k + 1}", c, unit))))] for k, c in enumerate(cells)]
+
+
+def at_once(name: str, value, unit: str, compute, never: str = ""):
+    """Apply a vectorised ``compute`` to one number, or to a whole range in one core call.
+
+    ``compute`` takes a 1-D array and returns one result per entry; where a
+    result is infinite (the element never operates) the cell shows the words
+    ``never``, not a number. A single cell gives a single result, a range a
+    column, as :func:`each` does; a bad entry fails the whole range with its
+    own name, and the core is called once however long the range is.
+    """
+    single = not isinstance(value, (list, tuple))
+    values = np.array([number(name, value, unit)]) if single else column(name, value, unit)
+    results = np.asarray(compute(values), dtype=float).ravel()
+    cells = [never if r == math.inf else r for r in results.tolist()]
+    return cells[0] if single else [[c] for c in cells]
 
 
 def _is_blank(value) -> bool:

@@ -19,6 +19,8 @@ __all__ = [
     "quantity",
     "as_float",
     "as_float_array",
+    "as_time_series",
+    "as_magnitudes",
     "require_positive",
     "require_non_negative",
     "require_below",
@@ -65,11 +67,47 @@ def as_float_array(name: str, values, unit: str = "", min_length: int = 1) -> np
     """Return a 1-D float array of finite numbers or raise naming ``name``."""
     if values is None:
         raise InputTypeError(f"{name} is empty; numbers{_in(unit)} are needed")
-    flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
-    numbers = np.array([as_float(f"{name} entry {k + 1}", v, unit) for k, v in enumerate(flat)])
+    if isinstance(values, np.ndarray) and values.dtype.kind in "fiu":
+        # Already numbers: check all at once (a 10,000-sample history), same messages as below.
+        numbers = np.ravel(values).astype(float)
+        bad = ~np.isfinite(numbers)
+        if np.any(bad):
+            k = int(np.argmax(bad))
+            as_float(f"{name} entry {k + 1}", numbers[k], unit)
+    else:
+        flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+        numbers = np.array([as_float(f"{name} entry {k + 1}", v, unit) for k, v in enumerate(flat)])
     if numbers.size < min_length:
         raise InputError(f"{name} has {numbers.size} values; at least {min_length} are needed")
     return numbers
+
+
+def as_magnitudes(name: str, values, unit: str = "") -> np.ndarray:
+    """Return ``values`` (a number or an array, shape kept) as floats at or above zero."""
+    numbers = as_float_array(name, values, unit).reshape(np.shape(values))
+    if np.any(numbers < 0.0):
+        raise InputError(f"{name} ({quantity(float(np.min(numbers)), unit)}) must not be negative: enter its magnitude")
+    return numbers
+
+
+def as_time_series(name: str, t_s, values, unit: str = "") -> tuple[np.ndarray, np.ndarray]:
+    """Return sample times [s] and values as float arrays of equal length, times not falling.
+
+    At least two samples are needed (one interval); equal times are allowed,
+    so that a step change can be written as two rows at the same instant.
+    """
+    times = as_float_array(f"{name} time", t_s, "s", min_length=2)
+    numbers = as_float_array(f"{name} {unit or 'value'}", values, unit, min_length=2)
+    if times.size != numbers.size:
+        raise InputError(f"{name} has {times.size} times but {numbers.size} values")
+    falls = np.diff(times) < 0.0
+    if np.any(falls):
+        k = int(np.argmax(falls))
+        raise InputError(
+            f"{name} times must not fall: row {k + 2} ({quantity(times[k + 1], 's')}) "
+            f"is before row {k + 1} ({quantity(times[k], 's')})"
+        )
+    return times, numbers
 
 
 def require_positive(name: str, value: float, unit: str = "") -> float:

@@ -25,6 +25,9 @@ from tests.xlwings_standin import EXCEL_MISSING, call_like_excel, real_xlwings
 SERIES_CURVE = (("current A", "EMF V"), (0.0, 5.0), (50.0, 120.0), (100.0, 200.0), (200.0, 290.0), (400.0, 350.0))
 COMPOUND_CURVE = ((0.0, 0.0), (1000.0, 100.0), (3000.0, 200.0), (6000.0, 260.0), (9000.0, 290.0))
 M = EXCEL_MISSING
+#: A resistance start as (time s, current A) rows: four notches between 420 A and 300 A, then 120 A running.
+START = (("time s", "current A"), (0.0, 420.0), (1.5, 300.0), (1.5, 420.0), (3.0, 300.0), (3.0, 420.0), (4.5, 300.0),
+         (4.5, 420.0), (6.0, 300.0), (6.0, 120.0), (10.0, 120.0))
 
 #: Valid raw arguments, as Excel passes them, for every spreadsheet function.
 EXAMPLES = {
@@ -37,6 +40,16 @@ EXAMPLES = {
     "NW_SERIES_MIN_LOAD": (220.0, 0.1, 2000.0, SERIES_CURVE, 800.0, M),
     "NW_SERIES_RESIDUAL_SPEED": (220.0, 0.1, SERIES_CURVE, 800.0, M),
     "NW_SHUNT_KPHI": (220.0, 100.0, 1000.0, 0.1, M),
+    "NW_RELAY_TIME": ("IEC SI", ((200.0,), (500.0,), (1000.0,)), 100.0, 0.2),
+    "NW_RELAY_MULTIPLIER": ("ieee vi", 600.0, 100.0, 1.5),
+    "NW_RELAY_CURRENT": ("IEC EI", 2.0, 100.0, 0.5),
+    "NW_RELAY_RESET_TIME": ("IEEE MI", ((0.0,), (50.0,)), 100.0, 2.0),
+    "NW_THERMAL_TIME": (((150.0,), (300.0,)), 100.0, 1.05, 900.0, 60.0),
+    "NW_CT_PRIMARY": (((8.0,), (130.0,)),),
+    "NW_CT_RATIO": (130.0, 5.0),
+    "NW_RIDE_THROUGH": (START, "IEC VI", 140.0, 1.2, 650.0, M, 120.0, 1.05, 900.0, M, True),
+    "NW_PROPOSE_SETTINGS": (START, "IEC VI", 120.0, 420.0, 30.0, M, M, M, M, M, M),
+    "NW_COORDINATE": ("IEC SI", 300.0, "IEC VI", 138.0, 1.2, 4000.0, M, 650.0, 0.05, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
