@@ -90,16 +90,16 @@ def as_magnitudes(name: str, values, unit: str = "") -> np.ndarray:
     return numbers
 
 
-def as_time_series(name: str, t_s, values, unit: str = "") -> tuple[np.ndarray, np.ndarray]:
+def as_time_series(name: str, t_s, values, unit: str = "", value_name: str = "value") -> tuple[np.ndarray, np.ndarray]:
     """Return sample times [s] and values as float arrays of equal length, times not falling.
 
     At least two samples are needed (one interval); equal times are allowed,
     so that a step change can be written as two rows at the same instant.
     """
     times = as_float_array(f"{name} time", t_s, "s", min_length=2)
-    numbers = as_float_array(f"{name} {unit or 'value'}", values, unit, min_length=2)
+    numbers = as_float_array(f"{name} {value_name}", values, unit)
     if times.size != numbers.size:
-        raise InputError(f"{name} has {times.size} times but {numbers.size} values")
+        raise InputError(f"{name} has {times.size} times but {numbers.size} {value_name} values")
     falls = np.diff(times) < 0.0
     if np.any(falls):
         k = int(np.argmax(falls))

@@ -46,9 +46,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import DesignError, as_magnitudes, as_time_series, quantity, require_non_negative, require_positive
+from .errors import DesignError, quantity, require_non_negative, require_positive
 from .relays import (
     Curve,
+    current_history,
     definite_progress,
     definite_time_s,
     instantaneous_progress,
@@ -124,11 +125,6 @@ class ElementCheck:
         return f"TRIPS at {quantity(self.trip_s, 's')}"
 
 
-def _history(t_s, i_a):
-    t, currents = as_time_series("history", t_s, i_a, "A")
-    return t, as_magnitudes("history current", currents, "A")
-
-
 def ride_through(
     t_s,
     i_a,
@@ -167,7 +163,7 @@ def ride_through(
     list of ElementCheck
         One per element: inverse time, then high-set, then thermal.
     """
-    t, currents = _history(t_s, i_a)
+    t, currents = current_history(t_s, i_a)
     progress = operate_progress(curve, t, currents, pickup_a, multiplier)
     reset = "falls back at the C37.112 reset rate" if curve.t_reset is not None else "resets at once"
     checks = [
@@ -270,7 +266,7 @@ def propose_settings(
         Where the stall current does not exceed the pickup, or no multiplier
         both rides through the start and clears the stall in time.
     """
-    t, currents = _history(t_s, i_a)
+    t, currents = current_history(t_s, i_a)
     flc = require_positive("i_full_load", i_full_load_a, "A")
     sf = require_positive("service_factor", service_factor)
     i_stall = require_positive("i_stall", i_stall_a, "A")

@@ -65,6 +65,7 @@ __all__ = [
     "CURVES",
     "CURVE_NAMES",
     "curve_named",
+    "current_history",
     "operate_time_s",
     "multiplier_for_time",
     "current_for_time_a",
@@ -137,6 +138,12 @@ def curve_named(name: str, argument: str = "curve") -> Curve:
 
 def _currents(i_a) -> np.ndarray:
     return as_magnitudes("current", i_a, "A")
+
+
+def current_history(t_s, i_a) -> tuple[np.ndarray, np.ndarray]:
+    """Sample times [s], not falling, and current magnitudes [A] of a history, checked."""
+    t, currents = as_time_series("history", t_s, i_a, "A", "current")
+    return t, as_magnitudes("history current", currents, "A")
 
 
 def _settings(pickup_a, multiplier):
@@ -397,8 +404,7 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
     ----------
     .. [1] IEEE C37.112-1996, integral equation of the operate and reset characteristics.
     """
-    t, currents = as_time_series("history", t_s, i_a, "A")
-    _currents(currents)
+    t, currents = current_history(t_s, i_a)
     pickup, mult = _settings(pickup_a, multiplier)
     inverse = curve.t_reset is not None if inverse_reset is None else bool(inverse_reset)
     if inverse and curve.t_reset is None:
@@ -416,8 +422,7 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
 
 def definite_progress(t_s, i_a, pickup_a: float, delay_s: float) -> Progress:
     """Operate progress of a definite-time element (delay above zero), resetting at once below pickup."""
-    t, currents = as_time_series("history", t_s, i_a, "A")
-    _currents(currents)
+    t, currents = current_history(t_s, i_a)
     pickup = require_positive("pickup", pickup_a, "A")
     delay = require_positive("delay", delay_s, "s")
     above = currents[:-1] > pickup
@@ -426,8 +431,7 @@ def definite_progress(t_s, i_a, pickup_a: float, delay_s: float) -> Progress:
 
 def instantaneous_progress(t_s, i_a, pickup_a: float) -> Progress:
     """Current over pickup at each sample of an instantaneous element; it trips at the first sample above 1."""
-    t, currents = as_time_series("history", t_s, i_a, "A")
-    _currents(currents)
+    t, currents = current_history(t_s, i_a)
     ratio = currents / require_positive("pickup", pickup_a, "A")
     over = np.nonzero(ratio > 1.0)[0]
     return Progress(t, ratio, float(t[over[0]]) if over.size else None)

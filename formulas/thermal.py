@@ -38,7 +38,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import InputError, as_magnitudes, as_time_series, quantity, require_non_negative, require_positive
+from .errors import InputError, as_magnitudes, quantity, require_non_negative, require_positive
+from .relays import current_history
 
 __all__ = ["ThermalElement", "thermal_element", "thermal_trip_time_s", "ThermalState", "thermal_state"]
 
@@ -186,8 +187,7 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     ----------
     .. [1] IEC 60255-149:2013, thermal model of the element.
     """
-    t, currents = as_time_series("history", t_s, i_a, "A")
-    as_magnitudes("current", currents, "A")
+    t, currents = current_history(t_s, i_a)
     theta = np.empty(t.size)
     theta[0] = _prior_level(element, i_prior_a)
     target = element.level(currents[:-1])

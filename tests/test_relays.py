@@ -1,0 +1,289 @@
+"""Inverse-time, definite-time and instantaneous elements against the standards that define them.
+
+Sources:
+- IEC 60255-151:2009, Table 1 (types A to F: k, alpha, c).
+- IEEE Std C37.112-1996, Table 1 (A, B, p, tr), operate, reset and integral equations.
+- IEC 60255-3:1989, long-time inverse (k = 120, alpha = 1): from memory.
+- GE Multilin, *M60 / L90 Instruction Manual*, Table 5-29 "IEEE curve trip times (in seconds)":
+  operate times a relay maker printed from the C37.112 equation, used as worked figures
+  (3 decimals printed, so the tolerance is 0.5 ms).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import assume, given, settings
+from hypothesis import strategies as st
+
+from addin import udfs
+from formulas.errors import DesignError, InputError, InputTypeError
+from formulas.relays import (
+    CURVE_NAMES,
+    CURVES,
+    curve_named,
+    current_for_time_a,
+    definite_progress,
+    definite_time_s,
+    instantaneous_progress,
+    multiplier_for_time,
+    operate_progress,
+    operate_time_s,
+    reset_time_s,
+)
+
+
+# --- constants -------------------------------------------------------------------------------
+
+@pytest.mark.parametrize(
+    "name, k, alpha, c, t_reset",
+    [
+        ("IEC SI", 0.14, 0.02, 0.0, None),  # IEC 60255-151:2009, Table 1, type A
+        ("IEC VI", 13.5, 1.0, 0.0, None),  # IEC 60255-151:2009, Table 1, type B
+        ("IEC EI", 80.0, 2.0, 0.0, None),  # IEC 60255-151:2009, Table 1, type C
+        ("IEC LTI", 120.0, 1.0, 0.0, None),  # IEC 60255-3:1989, long-time inverse (from memory)
+        ("IEEE MI", 0.0515, 0.02, 0.1140, 4.85),  # IEEE C37.112-1996, Table 1 (IEC 60255-151 type D)
+        ("IEEE VI", 19.61, 2.0, 0.491, 21.6),  # IEEE C37.112-1996, Table 1 (IEC 60255-151 type E)
+        ("IEEE EI", 28.2, 2.0, 0.1217, 29.1),  # IEEE C37.112-1996, Table 1 (IEC 60255-151 type F)
+    ],
+)
+def test_curve_constants_are_those_of_the_standards(name, k, alpha, c, t_reset):
+    curve = CURVES[name]
+    assert (curve.k, curve.alpha, curve.c, curve.t_reset) == (k, alpha, c, t_reset)
+    assert curve.source
+
+
+@pytest.mark.parametrize("letter, name", [("IEC A", "IEC SI"), ("iec b", "IEC VI"), (" IEC  C ", "IEC EI"), ("ieee ei", "IEEE EI")])
+def test_iec_letters_and_any_case_name_the_same_curve(letter, name):
+    assert curve_named(letter) is CURVES[name]  # IEC 60255-151:2009, Table 1: types A, B, C
+
+
+# --- worked figures --------------------------------------------------------------------------
+
+MULTIPLES = (1.5, 2.0, 3.0, 4.0, 5.0, 6.0, 7.0, 8.0, 9.0, 10.0)
+#: GE Multilin M60/L90 instruction manual, Table 5-29 (IEEE curve trip times, s), rows at time dial 0.5, 1 and 10.
+GE_TABLE_5_29 = {
+    ("IEEE EI", 0.5): (11.341, 4.761, 1.823, 1.001, 0.648, 0.464, 0.355, 0.285, 0.237, 0.203),
+    ("IEEE EI", 1.0): (22.682, 9.522, 3.647, 2.002, 1.297, 0.927, 0.709, 0.569, 0.474, 0.407),
+    ("IEEE EI", 10.0): (226.817, 95.217, 36.467, 20.017, 12.967, 9.274, 7.092, 5.693, 4.742, 4.065),
+    ("IEEE VI", 0.5): (8.090, 3.514, 1.471, 0.899, 0.654, 0.526, 0.450, 0.401, 0.368, 0.345),
+    ("IEEE VI", 1.0): (16.179, 7.028, 2.942, 1.798, 1.308, 1.051, 0.900, 0.802, 0.736, 0.689),
+    ("IEEE VI", 10.0): (161.790, 70.277, 29.423, 17.983, 13.081, 10.513, 8.995, 8.023, 7.361, 6.891),
+    ("IEEE MI", 0.5): (3.220, 1.902, 1.216, 0.973, 0.844, 0.763, 0.706, 0.663, 0.630, 0.603),
+    ("IEEE MI", 1.0): (6.439, 3.803, 2.432, 1.946, 1.688, 1.526, 1.412, 1.327, 1.260, 1.207),
+    ("IEEE MI", 10.0): (64.390, 38.032, 24.322, 19.458, 16.883, 15.255, 14.117, 13.267, 12.604, 12.068),
+}
+
+
+@pytest.mark.parametrize("name, dial", sorted(GE_TABLE_5_29))
+def test_ieee_times_match_a_published_table(name, dial):
+    published = np.array(GE_TABLE_5_29[name, dial])
+    times = operate_time_s(CURVES[name], 100.0 * np.array(MULTIPLES), 100.0, dial)
+    np.testing.assert_allclose(times, published, atol=1.5e-3 * dial)  # 3 decimals printed; row 10 is 10 x row 1
+
+
+@pytest.mark.parametrize(
+    "name, seconds",
+    [
+        ("IEC SI", 2.97),  # the familiar "3 s at ten times setting, TMS 1" of BS 142 / IEC 60255-3 (from memory)
+        ("IEC VI", 1.5),  # 13.5 / 9, IEC 60255-151 Table 1 type B
+        ("IEC EI", 80.0 / 99.0),  # IEC 60255-151 Table 1 type C
+        ("IEC LTI", 120.0 / 9.0),  # IEC 60255-3 long-time inverse (from memory)
+    ],
+)
+def test_iec_times_at_ten_times_pickup(name, seconds):
+    assert operate_time_s(CURVES[name], 1000.0, 100.0, 1.0) == pytest.approx(seconds, abs=5e-3)
+
+
+def test_ieee_reset_at_zero_current_is_dial_times_tr():
+    for name in ("IEEE MI", "IEEE VI", "IEEE EI"):  # IEEE C37.112-1996 reset equation at M = 0
+        curve = CURVES[name]
+        assert reset_time_s(curve, 0.0, 100.0, 2.0) == pytest.approx(2.0 * curve.t_reset, rel=1e-15)
+        assert reset_time_s(curve, 50.0, 100.0, 1.0) == pytest.approx(curve.t_reset / 0.75, rel=1e-15)
+        assert math.isinf(reset_time_s(curve, 100.0, 100.0, 1.0))
+
+
+def test_iec_curves_have_no_inverse_reset():
+    with pytest.raises(InputError, match="no inverse reset"):
+        reset_time_s(CURVES["IEC SI"], 50.0, 100.0, 1.0)
+
+
+# --- laws ------------------------------------------------------------------------------------
+
+curve_names = st.sampled_from(sorted(CURVES))
+multiples = st.floats(1.05, 50.0)
+dials = st.floats(0.02, 15.0)
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=curve_names, m=multiples, dial=dials, pickup=st.floats(0.1, 1e4))
+def test_multiplier_from_time_inverts_time_from_multiplier(name, m, dial, pickup):
+    curve = CURVES[name]
+    t = operate_time_s(curve, m * pickup, pickup, dial)
+    assert multiplier_for_time(curve, m * pickup, pickup, t) == pytest.approx(dial, rel=1e-9)
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=curve_names, m=multiples, dial=dials, pickup=st.floats(0.1, 1e4))
+def test_current_from_time_inverts_time_from_current(name, m, dial, pickup):
+    curve = CURVES[name]
+    t = operate_time_s(curve, m * pickup, pickup, dial)
+    assume(t > dial * curve.c * (1.0 + 1e-6))
+    assert current_for_time_a(curve, t, pickup, dial) == pytest.approx(m * pickup, rel=1e-6)
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=curve_names, m=st.lists(st.floats(1.01, 100.0), min_size=2, max_size=20), dial=dials)
+def test_time_falls_as_current_rises(name, m, dial):
+    currents = np.unique(np.round(m, 4)) * 100.0  # distinct by more than rounding
+    times = operate_time_s(CURVES[name], currents, 100.0, dial)
+    assert np.all(np.diff(times) < 0.0)
+
+
+def test_scalar_equals_vector_and_no_operation_at_or_below_pickup():
+    curve = CURVES["IEEE VI"]
+    currents = np.array([0.0, 50.0, 100.0, 150.0, 700.0])
+    times = operate_time_s(curve, currents, 100.0, 2.0)
+    assert np.all(np.isinf(times[:3]))
+    assert [operate_time_s(curve, i, 100.0, 2.0) for i in currents[3:]] == list(times[3:])
+
+
+def test_definite_time_element():
+    assert list(definite_time_s([99.0, 100.0, 101.0], 100.0, 0.25)) == [math.inf, math.inf, 0.25]
+
+
+# --- bad inputs ------------------------------------------------------------------------------
+
+def test_unknown_curve_lists_the_valid_names():
+    with pytest.raises(InputError) as error:
+        curve_named("IEC XI")
+    assert all(name in str(error.value) for name in CURVE_NAMES)
+
+
+@pytest.mark.parametrize("bad", [None, "", 3.0, True])
+def test_curve_that_is_not_text(bad):
+    with pytest.raises(InputTypeError, match="curve"):
+        curve_named(bad)
+
+
+@pytest.mark.parametrize(
+    "call, words",
+    [
+        (lambda: operate_time_s(CURVES["IEC SI"], 200.0, 0.0, 1.0), "pickup (0 A) must be above zero"),
+        (lambda: operate_time_s(CURVES["IEC SI"], 200.0, -5.0, 1.0), "pickup (-5 A) must be above zero"),
+        (lambda: operate_time_s(CURVES["IEC SI"], 200.0, 100.0, 0.0), "multiplier (0) must be above zero"),
+        (lambda: operate_time_s(CURVES["IEC SI"], -1.0, 100.0, 1.0), "current (-1 A) must not be negative"),
+        (lambda: operate_time_s(CURVES["IEC SI"], "lots", 100.0, 1.0), "is not a number in A"),
+        (lambda: operate_time_s(CURVES["IEC SI"], 200.0, None, 1.0), "pickup is empty"),
+        (lambda: multiplier_for_time(CURVES["IEC SI"], 100.0, 100.0, 1.0), "at or below pickup (100 A)"),
+        (lambda: multiplier_for_time(CURVES["IEC SI"], 200.0, 100.0, -1.0), "target_time (-1 s) must be above zero"),
+        (lambda: current_for_time_a(CURVES["IEEE EI"], 0.1, 100.0, 1.0), "no current operates that fast"),
+        (lambda: definite_time_s(200.0, 100.0, -0.1), "delay (-0.1 s) must not be negative"),
+    ],
+)
+def test_bad_input_gives_a_message(call, words):
+    with pytest.raises((InputError, InputTypeError, DesignError)) as error:
+        call()
+    assert words in str(error.value)
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=curve_names, pickup=st.floats(-1e6, 0.0), dial=st.floats(-1e3, 0.0) | st.floats(0.01, 10.0))
+def test_any_pickup_at_or_below_zero_is_refused(name, pickup, dial):
+    with pytest.raises(InputError, match="must be above zero"):
+        operate_time_s(CURVES[name], 500.0, pickup, dial)
+
+
+@settings(max_examples=200, deadline=None)
+@given(name=curve_names, ratio=st.floats(0.0, 1.0), dial=dials)
+def test_any_current_at_or_below_pickup_has_no_multiplier(name, ratio, dial):
+    with pytest.raises(InputError, match="does not operate"):
+        multiplier_for_time(CURVES[name], ratio * 100.0, 100.0, 1.0)
+
+
+# --- operate progress along a history (IEEE C37.112 integral equation) -----------------------
+
+def test_constant_current_reaches_duration_over_operate_time():
+    curve = CURVES["IEC SI"]
+    t = np.linspace(0.0, 1.2, 121)
+    progress = operate_progress(curve, t, np.full(t.size, 500.0), 100.0, 0.3)
+    closed_form = 1.2 / operate_time_s(curve, 500.0, 100.0, 0.3)  # C37.112 integral at constant current
+    assert progress.peak == pytest.approx(closed_form, rel=1e-12)
+    assert progress.trip_s is None
+
+
+def test_constant_current_trips_at_its_operate_time():
+    curve = CURVES["IEEE VI"]
+    t = np.linspace(0.0, 10.0, 1001)
+    progress = operate_progress(curve, t, np.full(t.size, 400.0), 100.0, 1.0)
+    assert progress.trip_s == pytest.approx(operate_time_s(curve, 400.0, 100.0, 1.0), rel=1e-12)
+
+
+def test_two_steps_add_their_fractions():
+    curve = CURVES["IEC EI"]
+    t, i = [0.0, 0.5, 0.5, 1.3], [800.0, 800.0, 300.0, 300.0]
+    expected = 0.5 / operate_time_s(curve, 800.0, 100.0, 1.0) + 0.8 / operate_time_s(curve, 300.0, 100.0, 1.0)
+    assert operate_progress(curve, t, i, 100.0, 1.0).peak == pytest.approx(expected, rel=1e-12)
+
+
+def test_ieee_progress_falls_at_the_reset_rate_and_not_below_zero():
+    curve = CURVES["IEEE MI"]
+    rise = operate_time_s(curve, 300.0, 100.0, 1.0)
+    t = [0.0, 0.5 * rise, 0.5 * rise + 1.0, 100.0]
+    progress = operate_progress(curve, t, [300.0, 50.0, 50.0, 50.0], 100.0, 1.0)
+    fall = 1.0 / reset_time_s(curve, 50.0, 100.0, 1.0)  # C37.112 reset: dt / t_r per unit progress
+    assert progress.fraction[1] == pytest.approx(0.5, rel=1e-12)
+    assert progress.fraction[2] == pytest.approx(0.5 - fall, rel=1e-12)
+    assert progress.fraction[3] == 0.0
+
+
+def test_iec_progress_resets_at_once_below_pickup():
+    curve = CURVES["IEC VI"]
+    progress = operate_progress(curve, [0.0, 1.0, 1.1, 2.0], [500.0, 90.0, 500.0, 500.0], 100.0, 1.0)
+    assert progress.fraction[2] == 0.0
+    assert progress.fraction[3] == pytest.approx(0.9 / operate_time_s(curve, 500.0, 100.0, 1.0), rel=1e-12)
+
+
+def test_definite_and_instantaneous_progress():
+    t, i = [0.0, 0.2, 0.3, 0.6], [900.0, 400.0, 900.0, 900.0]
+    definite = definite_progress(t, i, 500.0, 0.25)
+    assert definite.fraction[1] == pytest.approx(0.8) and definite.fraction[2] == 0.0
+    assert definite.trip_s == pytest.approx(0.55)
+    instant = instantaneous_progress(t, i, 1000.0)
+    assert instant.peak == pytest.approx(0.9) and instant.trip_s is None
+    assert instantaneous_progress(t, i, 800.0).trip_s == 0.0
+
+
+@pytest.mark.parametrize(
+    "t, i, words",
+    [
+        ([0.0], [100.0], "at least 2"),
+        ([0.0, 1.0, 0.5], [100.0, 100.0, 100.0], "times must not fall"),
+        ([0.0, 1.0], [100.0, -5.0], "must not be negative"),
+        ([0.0, 1.0], [100.0], "2 times but 1 current values"),
+    ],
+)
+def test_bad_history_gives_a_message(t, i, words):
+    with pytest.raises(InputError, match=words):
+        operate_progress(CURVES["IEC SI"], t, i, 100.0, 1.0)
+
+
+# --- the spreadsheet functions ---------------------------------------------------------------
+
+def test_cell_column_of_currents_gives_a_column_with_words_below_pickup():
+    result = udfs.NW_RELAY_TIME("iec vi", [[50.0], [100.0], [250.0]], 100.0, 1.0)
+    assert result[0][0] == result[1][0] == "does not operate: at or below pickup"
+    assert result[2][0] == pytest.approx(13.5 / 1.5)  # IEC 60255-151 Table 1 type B at M = 2.5
+
+
+def test_cell_single_current_below_pickup_is_words_not_a_number():
+    assert udfs.NW_RELAY_TIME("IEC SI", 80.0, 100.0, 1.0) == "does not operate: at or below pickup"
+    assert udfs.NW_RELAY_MULTIPLIER("IEC SI", 80.0, 100.0, 1.0).startswith("Error: current (80 A) is at or below pickup")
+
+
+def test_cell_unknown_curve_and_bad_entry_give_messages():
+    assert udfs.NW_RELAY_TIME("IEC Q", 500.0, 100.0, 1.0).startswith("Error: curve ('IEC Q') must be one of: IEC SI")
+    assert udfs.NW_RELAY_TIME("IEC SI", [[500.0], ["x"]], 100.0, 1.0) == "Error: current entry 2 ('x') is not a number in A"
+    assert udfs.NW_RELAY_TIME("IEC SI", 500.0, 0.0, 1.0) == "Error: pickup (0 A) must be above zero"
