@@ -189,6 +189,12 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
         raise InputError(f"{name} has {len(rows)} rows of numbers; at least {min_rows} are needed")
     if len(rows[0]) < len(columns):
         raise InputError(f"{name} needs {len(columns)} columns ({', '.join(columns)}); it has {len(rows[0])}")
+    cells = [row[: len(columns)] for row in rows]
+    if all(type(c) in (float, int) for row in cells for c in row):
+        # Plain numbers (a 10,000-row history): checked at once; anything else takes the path that names the cell.
+        numbers = np.array(cells, dtype=float)
+        if numbers.shape == (len(rows), len(columns)) and np.all(np.isfinite(numbers)):
+            return numbers
     return np.array(
         [
             [as_float(f"{name} row {r + 1} {col}", row[c], unit) for c, (col, unit) in enumerate(zip(columns, units))]

@@ -15,6 +15,9 @@ import numpy as np
 from addin import udfs
 from formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
 from formulas.grading import check_sections, grade_uniform
+from formulas.protection import ride_through
+from formulas.relays import CURVES, operate_time_s
+from formulas.thermal import thermal_element
 
 CURVE_ROWS = [[0.0, 6.0], [40.0, 62.0], [80.0, 112.0], [120.0, 150.0], [160.0, 178.0], [220.0, 205.0],
               [300.0, 228.0], [400.0, 246.0], [500.0, 258.0]]
@@ -26,6 +29,15 @@ def series_motor() -> SeriesMotor:
     """The hoist motor built from its table, as every cell call does: the curve's fit is core work."""
     return SeriesMotor(0.062, magnetization_curve(CURVE_TABLE[:, 0], CURVE_TABLE[:, 1], 700.0))
 
+
+#: A chart curve: 1,000 currents from 1.05 to 30 times a 100 A pickup, as a column range.
+CURVE_CURRENTS = np.geomspace(105.0, 3000.0, 1000)
+CURVE_COLUMN = [[float(i)] for i in CURVE_CURRENTS]
+#: A start of 10,000 samples over 10 s: a current-limit start falling 420 -> 290 A on each of five notches, then 120 A.
+START_T = np.linspace(0.0, 10.0, 10_000)
+START_I = np.where(START_T < 7.5, 420.0 - 130.0 * ((START_T % 1.5) / 1.5), 120.0)
+START_ROWS = [[float(t), float(i)] for t, i in zip(START_T, START_I)]
+THERMAL = thermal_element(120.0, 1.05, 900.0)
 
 #: name -> (core call, add-in call, target in ms for the core call)
 CASES = {
@@ -54,6 +66,16 @@ CASES = {
         lambda: developed_torque_nm(series_motor(), 200.0),
         lambda: udfs.NW_SERIES_TORQUE(200.0, CURVE_ROWS, 700.0),
         1.0,
+    ),
+    "relay curve, 1,000 points": (
+        lambda: operate_time_s(CURVES["IEC VI"], CURVE_CURRENTS, 100.0, 0.3),
+        lambda: udfs.NW_RELAY_TIME("IEC VI", CURVE_COLUMN, 100.0, 0.3),
+        5.0,
+    ),
+    "ride-through, 10,000 samples": (
+        lambda: ride_through(START_T, START_I, CURVES["IEC VI"], 140.0, 1.2, 550.0, 0.0, THERMAL),
+        lambda: udfs.NW_RIDE_THROUGH(START_ROWS, "IEC VI", 140.0, 1.2, 550.0, None, 120.0, 1.05, 900.0, None, None),
+        5.0,
     ),
 }
 
