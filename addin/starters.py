@@ -75,7 +75,16 @@ def _shunt_motor(r_ohm):
     return ShuntMotor(r_ohm, k_phi_v_per_rpm=1.0)
 
 
-def _grading_rows(grading, headers):
+def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers):
+    """The common cells of every grading function, graded and spilled."""
+    grading = grade_uniform(
+        motor,
+        number("v_supply", v_supply, "V"),
+        number("i_peak", i_peak, "A"),
+        number("i_switch", i_switch, "A"),
+        optional_count("notches", notches),
+        optional_number("brush_drop", brush_drop, 0.0, "V"),
+    )
     rows = zip(
         range(1, grading.notches + 1),
         grading.r_total_ohm,
@@ -98,15 +107,7 @@ def _grading_rows(grading, headers):
 def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC shunt or separately excited motor: one row per notch, geometric current-limit law."""
     motor = _shunt_motor(require_positive("r_armature", r_armature, "ohm"))
-    grading = grade_uniform(
-        motor,
-        number("v_supply", v_supply, "V"),
-        number("i_peak", i_peak, "A"),
-        number("i_switch", i_switch, "A"),
-        optional_count("notches", notches),
-        optional_number("brush_drop", brush_drop, 0.0, "V"),
-    )
-    return _grading_rows(grading, headers)
+    return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
 @cell_function(
@@ -123,15 +124,7 @@ def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_d
 def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC series motor, flux following current on its magnetization curve: one row per notch."""
     motor = SeriesMotor(number("r_motor", r_motor, "ohm"), _series_curve(mag_curve, optional=True))
-    grading = grade_uniform(
-        motor,
-        number("v_supply", v_supply, "V"),
-        number("i_peak", i_peak, "A"),
-        number("i_switch", i_switch, "A"),
-        optional_count("notches", notches),
-        optional_number("brush_drop", brush_drop, 0.0, "V"),
-    )
-    return _grading_rows(grading, headers)
+    return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
 @cell_function(
@@ -151,15 +144,8 @@ def NW_GRADE_COMPOUND(
     v_supply, r_motor, i_peak, i_switch, mag_curve, shunt_at, series_turns, notches=None, brush_drop=None, headers=None
 ):
     """Graded starter sections of a cumulative compound DC motor, flux from shunt plus series ampere-turns: one row per notch."""
-    grading = grade_uniform(
-        _compound_motor(r_motor, mag_curve, shunt_at, series_turns),
-        number("v_supply", v_supply, "V"),
-        number("i_peak", i_peak, "A"),
-        number("i_switch", i_switch, "A"),
-        optional_count("notches", notches),
-        optional_number("brush_drop", brush_drop, 0.0, "V"),
-    )
-    return _grading_rows(grading, headers)
+    motor = _compound_motor(r_motor, mag_curve, shunt_at, series_turns)
+    return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
 @cell_function(

@@ -56,6 +56,7 @@ __all__ = [
     "back_emf_v",
     "torque_nm",
     "effective_supply_v",
+    "circuit_resistance_ohm",
     "steady_speed_rpm",
     "developed_torque_nm",
     "residual_speed_rpm",
@@ -395,6 +396,12 @@ def effective_supply_v(v_supply_v: float, brush_drop_v: float = 0.0) -> float:
     return v - drop
 
 
+def circuit_resistance_ohm(motor, r_external_ohm: float = 0.0) -> float:
+    """Motor resistance plus external resistance, checked to be above zero. [ohm]"""
+    r_external = require_non_negative("r_external", r_external_ohm, "ohm")
+    return require_positive("r_circuit", motor.r_ohm + r_external, "ohm")
+
+
 def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0, brush_drop_v: float = 0.0):
     r"""Speed at which a motor carries a given current.
 
@@ -426,7 +433,7 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
     .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003, Eq. 7.8.
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
-    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    r = circuit_resistance_ohm(motor, r_external_ohm)
     i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
     if np.any(i < 0.0):
         raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
@@ -545,7 +552,7 @@ def minimum_load(
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
     n_max = require_positive("n_max", n_max_rpm, "rpm")
-    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    r = circuit_resistance_ohm(motor, r_external_ohm)
     n_residual = residual_speed_rpm(motor, v_supply_v, brush_drop_v)
 
     def surplus_v(i_a: float) -> float:

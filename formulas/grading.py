@@ -155,7 +155,7 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
     if notches is None:
         ratio = flux_ratio(i_switch)
         r = np.array([r_first])
-        while r[-1] > r_motor * (1.0 + 1e-12):
+        while r[-1] > r_motor:
             if r.size > MAX_NOTCHES:
                 raise DesignError(
                     f"more than {MAX_NOTCHES} notches would be needed: widen the band between "
@@ -171,12 +171,12 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
         count = r.size - 1
     else:
         count = require_count("notches", notches, 1, MAX_NOTCHES)
-    if landing_error_ohm(i_switch, count) > 0.0:
-        needed = grade_uniform(motor, v_supply_v, i_peak, i_switch, None, brush_drop_v).notches
-        raise DesignError(
-            f"{count} notches cannot keep the switching current at or above i_switch "
-            f"({quantity(i_switch, 'A')}); {needed} are needed"
-        )
+        if landing_error_ohm(i_switch, count) > 0.0:
+            needed = grade_uniform(motor, v_supply_v, i_peak, i_switch, None, brush_drop_v).notches
+            raise DesignError(
+                f"{count} notches cannot keep the switching current at or above i_switch "
+                f"({quantity(i_switch, 'A')}); {needed} are needed"
+            )
     # The last cut lands on r_motor exactly: raise the switching current to the root.
     i_switch_final = (
         i_switch

@@ -14,6 +14,7 @@ from __future__ import annotations
 
 import inspect
 import io
+import os
 import re
 
 import pytest
@@ -130,7 +131,8 @@ def test_valid_example_gives_numbers_through_the_converters(excel, name):
 BAD_VALUES = ["", "abc", None, True, -1.0, 0.0, -1e300, 1e300, ((1.0, "x"),), (("a",),), 1e-300, -2146826281]
 
 
-@settings(max_examples=300, deadline=None)
+# NW_FUZZ_EXAMPLES=5000 for a longer hunt by hand; CI keeps the suite short.
+@settings(max_examples=int(os.environ.get("NW_FUZZ_EXAMPLES", 300)), deadline=None)
 @given(data=st.data())
 def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
     udfs, _, conversion = excel

@@ -1,0 +1,13 @@
+"""The notchwise command on the demo cases."""
+
+from __future__ import annotations
+
+from addin import CAUTION
+from addin.cli import main
+
+
+def test_demo_prints_the_graded_tables_and_the_caution(capsys):
+    assert main(["demo"]) == 0
+    out = capsys.readouterr().out
+    assert "NW_GRADE_SERIES" in out and "NW_GRADE_SHUNT" in out and "Error" not in out
+    assert CAUTION in out
