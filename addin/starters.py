@@ -210,7 +210,7 @@ def NW_CHECK_SECTIONS(
 )
 def NW_SERIES_SPEED(v_supply, r_circuit, current, mag_curve, mag_speed, brush_drop=None):
     """Speed of a DC series motor carrying a given current, from its magnetization curve [rpm]."""
-    motor = SeriesMotor(require_positive("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed))
+    motor = SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed))
     v = number("v_supply", v_supply, "V")
     drop = optional_number("brush_drop", brush_drop, 0.0, "V")
     return each("current", current, "A", lambda i_a: float(steady_speed_rpm(motor, v, i_a, 0.0, drop)))
@@ -240,7 +240,7 @@ def NW_SERIES_TORQUE(current, mag_curve, mag_speed):
 def NW_SERIES_MIN_LOAD(v_supply, r_circuit, n_max, mag_curve, mag_speed, brush_drop=None):
     """Least armature current [A] and developed torque [N·m] that hold a series motor at or below n_max: one row."""
     result = minimum_load(
-        SeriesMotor(require_positive("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
         number("v_supply", v_supply, "V"),
         number("n_max", n_max, "rpm"),
         0.0,
@@ -260,7 +260,7 @@ def NW_SERIES_MIN_LOAD(v_supply, r_circuit, n_max, mag_curve, mag_speed, brush_d
 def NW_SERIES_RESIDUAL_SPEED(v_supply, r_circuit, mag_curve, mag_speed, brush_drop=None):
     """Speed a series motor would reach unloaded on its residual flux alone, a runaway warning figure [rpm]."""
     speed = residual_speed_rpm(
-        SeriesMotor(require_positive("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
         number("v_supply", v_supply, "V"),
         optional_number("brush_drop", brush_drop, 0.0, "V"),
     )
