@@ -322,14 +322,15 @@ def definite_time_s(i_a, pickup_a: float, delay_s: float):
 
 @dataclass(frozen=True)
 class Progress:
-    """Operate progress of an element along a current history.
+    """Progress to trip of an element along a current history (relay or thermal).
 
     Attributes
     ----------
     t_s : numpy.ndarray
         Sample times. [s]
     fraction : numpy.ndarray
-        Progress to trip at each sample: 0 at rest, 1 trips. [-]
+        Fraction of trip at each sample (operate progress, thermal level,
+        or current over pickup for an instantaneous element); 1 trips. [-]
     trip_s : float or None
         Time the progress first reaches 1; None where it never does. [s]
     """

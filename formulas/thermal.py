@@ -39,9 +39,9 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError, as_magnitudes, quantity, require_non_negative, require_positive
-from .relays import current_history
+from .relays import Progress, current_history
 
-__all__ = ["ThermalElement", "thermal_element", "thermal_trip_time_s", "ThermalState", "thermal_state"]
+__all__ = ["ThermalElement", "thermal_element", "thermal_trip_time_s", "thermal_state"]
 
 #: Intervals of one closed-form block are kept within this many time constants so exp() stays finite. [-]
 _BLOCK_TAUS = 300.0
@@ -128,36 +128,7 @@ def thermal_trip_time_s(element: ThermalElement, i_a, i_prior_a: float = 0.0):
     return np.where(trips, t, np.inf)[()]
 
 
-@dataclass(frozen=True)
-class ThermalState:
-    """Thermal level of an element along a current history.
-
-    Attributes
-    ----------
-    t_s : numpy.ndarray
-        Sample times. [s]
-    fraction : numpy.ndarray
-        Thermal level at each sample; 1 trips. [-]
-    trip_s : float or None
-        Time the level first reaches 1; None where it never does. [s]
-    """
-
-    t_s: np.ndarray
-    fraction: np.ndarray
-    trip_s: float | None
-
-    @property
-    def peak(self) -> float:
-        """Highest thermal level reached. [-]"""
-        return float(np.max(self.fraction))
-
-    @property
-    def peak_s(self) -> float:
-        """Time of the highest level. [s]"""
-        return float(self.t_s[int(np.argmax(self.fraction))])
-
-
-def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> ThermalState:
+def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> Progress:
     r"""Thermal level after each sample of a current history, each current held to the next sample.
 
     Parameters
@@ -173,7 +144,8 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
 
     Returns
     -------
-    ThermalState
+    Progress
+        ``fraction`` is the thermal level at each sample; 1 trips.
 
     Notes
     -----
@@ -206,4 +178,4 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
         k = int(crossed[0])
         settle = target[k - 1]
         trip = float(t[k - 1] + element.tau_s * np.log((settle - theta[k - 1]) / (settle - 1.0)))  # operate equation
-    return ThermalState(t, theta, trip)
+    return Progress(t, theta, trip)
