@@ -46,7 +46,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import DesignError, quantity, require_non_negative, require_positive
+from .errors import DesignError, InputError, quantity, require_non_negative, require_positive
 from .relays import (
     Curve,
     current_history,
@@ -65,6 +65,7 @@ __all__ = [
     "STALL_MARGIN",
     "HIGHSET_MARGIN",
     "MULTIPLIER_STEP",
+    "MULTIPLIER_STEP_RANGE",
     "CTI_S",
     "ElementCheck",
     "ride_through",
@@ -83,6 +84,8 @@ STALL_MARGIN = 0.2
 HIGHSET_MARGIN = 0.3
 #: Setting step the multiplier is rounded up to. Common practice, no source. [-]
 MULTIPLIER_STEP = 0.01
+#: Steps accepted: finer or coarser than any relay's setting dial (ours, no source). [-]
+MULTIPLIER_STEP_RANGE = (1e-4, 1.0)
 #: Coordination time interval; 0.2 s to 0.4 s is common practice [3]. [s]
 CTI_S = 0.3
 
@@ -212,7 +215,10 @@ class Figure:
 
 
 def _round_up(value: float, step: float) -> float:
-    return math.ceil(value / step * (1.0 - 1e-12)) * step
+    steps = value / step * (1.0 - 1e-12)
+    if not math.isfinite(steps):
+        raise DesignError(f"the start needs a multiplier of {value:.4g}, beyond any setting: check the pickup and the history")
+    return math.ceil(steps) * step
 
 
 def propose_settings(
@@ -275,6 +281,8 @@ def propose_settings(
     stall_m = require_non_negative("stall_margin", stall_margin)
     high_m = require_non_negative("highset_margin", highset_margin)
     step = require_positive("multiplier_step", multiplier_step)
+    if not MULTIPLIER_STEP_RANGE[0] <= step <= MULTIPLIER_STEP_RANGE[1]:
+        raise InputError(f"multiplier_step ({step:.4g}) must be from {MULTIPLIER_STEP_RANGE[0]:g} to {MULTIPLIER_STEP_RANGE[1]:g}")
     pickup = sf * flc
     i_peak = float(np.max(currents))
     highset = i_peak * (1.0 + high_m)

@@ -266,8 +266,9 @@ def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: fl
             f"target_time ({quantity(t, 's')}) is not above {quantity(floor_s, 's')}, the time {curve.name} "
             "tends to at unlimited current with this multiplier: no current operates that fast"
         )
-    with np.errstate(over="ignore"):
-        current = pickup * np.power(curve.k / (t / mult - curve.c) + 1.0, 1.0 / curve.alpha)  # Table 1 of [1], solved for I
+    with np.errstate(over="ignore", divide="ignore", under="ignore"):
+        at_one_s = np.float64(t) / mult - curve.c
+        current = pickup * np.power(curve.k / at_one_s + 1.0, 1.0 / curve.alpha)  # Table 1 of [1], solved for I
     if not np.isfinite(current):
         raise DesignError(f"no finite current operates {curve.name} in target_time ({quantity(t, 's')}) at this multiplier")
     return float(current)

@@ -41,7 +41,10 @@ import numpy as np
 from .errors import InputError, as_magnitudes, quantity, require_non_negative, require_positive
 from .relays import Progress, current_history
 
-__all__ = ["ThermalElement", "thermal_element", "thermal_trip_time_s", "thermal_state"]
+__all__ = ["MAX_OVERLOAD", "ThermalElement", "thermal_element", "thermal_trip_time_s", "thermal_state"]
+
+#: Largest current over k i_base a history may hold: far past any motor, and the level stays finite (ours). [-]
+MAX_OVERLOAD = 1e6
 
 #: Intervals of one closed-form block are kept within this many time constants so exp() stays finite. [-]
 _BLOCK_TAUS = 300.0
@@ -160,6 +163,11 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     .. [1] IEC 60255-149:2013, thermal model of the element.
     """
     t, currents = current_history(t_s, i_a)
+    if np.max(currents) > MAX_OVERLOAD * element.i_trip_a:
+        raise InputError(
+            f"history current ({quantity(float(np.max(currents)), 'A')}) is more than {MAX_OVERLOAD:g} times "
+            f"k_factor x i_base ({quantity(element.i_trip_a, 'A')}): check i_base"
+        )
     theta = np.empty(t.size)
     theta[0] = _prior_level(element, i_prior_a)
     target = element.level(currents[:-1])

@@ -159,6 +159,15 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_GRADE_SERIES", 4, (("I", "E"), (0.0, 10.0), (100.0, 5.0)), "EMF must not fall"),
         ("NW_CHECK_SECTIONS", 0, "wound rotor", "kind ('wound rotor') must be one of: shunt, series, compound"),
         ("NW_SERIES_SPEED", 2, 5000.0, "above the stall current"),
+        ("NW_RELAY_TIME", 0, "IEC XI", "curve ('IEC XI') must be one of: IEC SI, IEC VI, IEC EI, IEC LTI, IEEE MI"),
+        ("NW_RELAY_TIME", 2, -100.0, "pickup (-100 A) must be above zero"),
+        ("NW_RELAY_TIME", 3, 0.0, "multiplier (0) must be above zero"),
+        ("NW_RELAY_MULTIPLIER", 1, 100.0, "current (100 A) is at or below pickup (100 A)"),
+        ("NW_THERMAL_TIME", 4, 200.0, "i_prior (200 A) must be below k_factor x i_base (105 A)"),
+        ("NW_CT_RATIO", 1, 2.0, "secondary (2 A) must be 1 A or 5 A"),
+        ("NW_RIDE_THROUGH", 1, "IEC Z", "curve ('IEC Z') must be one of"),
+        ("NW_PROPOSE_SETTINGS", 3, 100.0, "i_stall (100 A) is not above the overload pickup (138 A)"),
+        ("NW_COORDINATE", 0, "ansi", "curve_up ('ansi') must be one of"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
