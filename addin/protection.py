@@ -23,7 +23,7 @@ from formulas.relays import (
     operate_time_s,
     reset_time_s,
 )
-from formulas.thermal import thermal_element, thermal_trip_time_s
+from formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
 
 from . import CAUTION
 from .cells import at_once, cell_function, each, flag, number, optional_number, spill, table
@@ -34,6 +34,7 @@ __all__ = [
     "NW_RELAY_CURRENT",
     "NW_RELAY_RESET_TIME",
     "NW_THERMAL_TIME",
+    "NW_THERMAL_LEVEL",
     "NW_CT_PRIMARY",
     "NW_CT_RATIO",
     "NW_RIDE_THROUGH",
@@ -126,6 +127,21 @@ def NW_THERMAL_TIME(current, i_base, k_factor, tau, i_prior=None):
     element = thermal_element(number("i_base", i_base, "A"), number("k_factor", k_factor), number("tau", tau, "s"))
     prior = optional_number("i_prior", i_prior, 0.0, "A")
     return at_once("current", current, "A", lambda i_a: thermal_trip_time_s(element, i_a, prior), NO_THERMAL_TRIP)
+
+
+@cell_function(
+    tables=("history",),
+    history="Current history: two columns, time [s] and current [A]; a text header row is skipped",
+    i_base=_DOC["i_base"],
+    k_factor=_DOC["k_factor"],
+    tau=_DOC["tau"],
+    i_prior=_DOC["i_prior"],
+)
+def NW_THERMAL_LEVEL(history, i_base, k_factor, tau, i_prior=None):
+    """Thermal level of an IEC 60255-149 element at the end of a current history, where 1 trips [-]."""
+    element = thermal_element(number("i_base", i_base, "A"), number("k_factor", k_factor), number("tau", tau, "s"))
+    state = thermal_state(element, *_history(history), optional_number("i_prior", i_prior, 0.0, "A"))
+    return float(state.fraction[-1])
 
 
 @cell_function(current="Current the CT must carry, e.g. full-load current on the AC supply side [A]; a range gives a column")

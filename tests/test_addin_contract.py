@@ -46,6 +46,7 @@ EXAMPLES = {
     "NW_RELAY_CURRENT": ("IEC EI", 2.0, 100.0, 0.5),
     "NW_RELAY_RESET_TIME": ("IEEE MI", ((0.0,), (50.0,)), 100.0, 2.0),
     "NW_THERMAL_TIME": (((150.0,), (300.0,)), 100.0, 1.05, 900.0, 60.0),
+    "NW_THERMAL_LEVEL": (START, 120.0, 1.05, 900.0, 60.0),
     "NW_CT_PRIMARY": (((8.0,), (130.0,)),),
     "NW_CT_RATIO": (130.0, 5.0),
     "NW_RIDE_THROUGH": (START, "IEC VI", 140.0, 1.2, 650.0, M, 120.0, 1.05, 900.0, M, True),

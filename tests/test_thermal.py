@@ -121,3 +121,10 @@ def test_cell_column_of_currents_gives_a_column():
     result = udfs.NW_THERMAL_TIME([[50.0], [210.0]], 100.0, 1.05, 600.0, None)
     assert result[0][0].startswith("does not trip")
     assert result[1][0] == pytest.approx(600.0 * math.log(4.0 / 3.0))  # cold operate equation at I = 2 k IB
+
+
+def test_cell_level_at_the_end_of_a_history_is_the_closed_form():
+    history = [["time s", "current A"], [0.0, 150.0], [300.0, 150.0]]
+    settle, start = (150.0 / 105.0) ** 2, (50.0 / 105.0) ** 2  # IEC 60255-149 model at constant current, hot start
+    level = udfs.NW_THERMAL_LEVEL(history, 100.0, 1.05, 600.0, 50.0)
+    assert level == pytest.approx(settle + (start - settle) * math.exp(-0.5), rel=1e-12)
