@@ -187,8 +187,8 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
     """
     currents = _currents(i_a)
     pickup, mult = _settings(pickup_a, multiplier)
-    m = currents / pickup
     with np.errstate(over="ignore"):
+        m = currents / pickup
         times = mult * _shape(m, curve)  # Table 1 of [1]
     if np.any(np.isinf(times) & (m > 1.0)):
         raise InputError(f"multiplier ({mult:.4g}) is so large that the operating time overflows")
