@@ -16,6 +16,7 @@ from __future__ import annotations
 
 import functools
 import inspect
+import itertools
 import logging
 import math
 
@@ -189,12 +190,11 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
         raise InputError(f"{name} has {len(rows)} rows of numbers; at least {min_rows} are needed")
     if len(rows[0]) < len(columns):
         raise InputError(f"{name} needs {len(columns)} columns ({', '.join(columns)}); it has {len(rows[0])}")
-    cells = [row[: len(columns)] for row in rows]
-    if all(type(c) in (float, int) for row in cells for c in row):
+    if set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}:
         # Plain numbers (a 10,000-row history): checked at once; anything else takes the path that names the cell.
-        numbers = np.array(cells, dtype=float)
-        if numbers.shape == (len(rows), len(columns)) and np.all(np.isfinite(numbers)):
-            return numbers
+        numbers = np.array(rows, dtype=float) if len({len(row) for row in rows}) == 1 else None
+        if numbers is not None and np.all(np.isfinite(numbers)):
+            return numbers[:, : len(columns)]
     return np.array(
         [
             [as_float(f"{name} row {r + 1} {col}", row[c], unit) for c, (col, unit) in enumerate(zip(columns, units))]

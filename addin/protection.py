@@ -76,8 +76,13 @@ def _history(history):
     return rows[:, 0], rows[:, 1]
 
 
+def _caution_row(width):
+    """Last row of a table of settings or verdicts: the caution in its last column."""
+    return ("caution", *[math.nan] * (width - 2), CAUTION)
+
+
 def _figures(figures, headers):
-    rows = [*((f.name, f.value, f.unit, f.basis) for f in figures), ("caution", math.nan, "", CAUTION)]
+    rows = [*((f.name, f.value, f.unit, f.basis) for f in figures), _caution_row(len(FIGURE_HEADER))]
     return spill(FIGURE_HEADER, rows, flag("headers", headers, True))
 
 
@@ -190,7 +195,7 @@ def NW_RIDE_THROUGH(
         _optional_thermal(i_base, k_factor, tau),
         optional_number("i_prior", i_prior, 0.0, "A"),
     )
-    rows = ((c.element, c.peak, c.peak_s, c.margin, c.verdict, c.basis) for c in checks)
+    rows = [*((c.element, c.peak, c.peak_s, c.margin, c.verdict, c.basis) for c in checks), _caution_row(len(RIDE_HEADER))]
     return spill(RIDE_HEADER, rows, flag("headers", headers, True))
 
 

@@ -413,7 +413,8 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
         raise InputError(f"curve ({curve.name!r}) has no inverse reset characteristic; reset it at once")
     dt = np.diff(t)
     m = currents[:-1] / pickup
-    rises = dt / (mult * _shape(m, curve))  # Eq. of [1]: progress dt / t(I); 0 where t is inf
+    with np.errstate(divide="ignore"):
+        rises = dt / (mult * _shape(m, curve))  # integral equation of [1]: dt / t(I); 0 where t is inf
     below = m <= 1.0
     if inverse:
         with np.errstate(divide="ignore"):

@@ -172,7 +172,8 @@ START = [["time s", "current A"], [0.0, 420.0], [2.0, 300.0], [2.0, 420.0], [4.0
 def test_cell_ride_through_table_shows_basis_and_verdict():
     rows = udfs.NW_RIDE_THROUGH(START, "IEC VI", 140.0, 1.0, 600.0, None, 120.0, 1.05, 900.0, None, None)
     assert rows[0] == ["element", "largest fraction of trip [-]", "at time [s]", "margin [-]", "verdict", "basis"]
-    assert len(rows) == 4 and all(row[5] for row in rows[1:])
+    assert len(rows) == 5 and all(row[5] for row in rows[1:])
+    assert rows[-1][0] == "caution" and "competent person" in rows[-1][5]
 
 
 def test_cell_proposal_ends_with_the_caution():
