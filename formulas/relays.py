@@ -415,6 +415,11 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
     m = currents[:-1] / pickup
     with np.errstate(divide="ignore"):
         rises = dt / (mult * _shape(m, curve))  # integral equation of [1]: dt / t(I); 0 where t is inf
+    if not np.all(np.isfinite(rises)):
+        raise InputError(
+            f"history current ({quantity(float(np.max(currents)), 'A')}) is so far above pickup "
+            f"({quantity(pickup, 'A')}) that {curve.name} operates in no time: check pickup"
+        )
     below = m <= 1.0
     if inverse:
         with np.errstate(divide="ignore"):

@@ -270,6 +270,11 @@ def test_bad_history_gives_a_message(t, i, words):
         operate_progress(CURVES["IEC SI"], t, i, 100.0, 1.0)
 
 
+def test_current_beyond_any_curve_gives_a_message():
+    with pytest.raises(InputError, match="operates in no time: check pickup"):
+        operate_progress(CURVES["IEC EI"], [0.0, 1.0], [1e300, 1e300], 100.0, 1.0)  # (1e298)^2 overflows
+
+
 # --- the spreadsheet functions ---------------------------------------------------------------
 
 def test_cell_column_of_currents_gives_a_column_with_words_below_pickup():
