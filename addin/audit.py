@@ -365,8 +365,9 @@ def _blank(value) -> bool:
 
 def _same(saved, recomputed):
     """(agrees, numeric difference or None) of two cell values."""
-    numbers = (int, float)
-    if isinstance(saved, numbers) and isinstance(recomputed, numbers) and not isinstance(saved, bool) and not isinstance(recomputed, bool):
+    if isinstance(saved, bool) or isinstance(recomputed, bool):
+        return saved is recomputed, None
+    if isinstance(saved, (int, float)) and isinstance(recomputed, (int, float)):
         difference = abs(float(saved) - float(recomputed))
         if math.isnan(difference):
             return False, None
