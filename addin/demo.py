@@ -2,7 +2,10 @@
 
 from __future__ import annotations
 
+import sys
 from pathlib import Path
+
+from xlsxwriter.exceptions import FileCreateError
 
 from workbooks.build_reference import SERIES_WARNING, build
 
@@ -36,8 +39,8 @@ def run(arguments) -> int:
     out = Path(arguments.out)
     try:
         computed = build(out)
-    except OSError as error:
-        print(f"notchwise demo: cannot write {out}: {error.strerror or error}")
+    except (OSError, FileCreateError) as error:
+        print(f"notchwise demo: cannot write {out}: {error}", file=sys.stderr)
         return 2
     swept = {}
     for cell in computed:
