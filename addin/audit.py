@@ -569,15 +569,19 @@ def write_atomically(path: Path, text: str) -> None:
 
 
 def _progress_bar(stream):
+    """A bar redrawn in place on a terminal; four plain lines (25 % steps) in a log."""
+    live = getattr(stream, "isatty", lambda: False)()
+
     def draw(done: int, total: int) -> None:
         if total < PROGRESS_FROM:
             return
-        step = max(total // 50, 1)
+        step = max(total // (50 if live else 4), 1)
         if done % step and done != total:
             return
         filled = 30 * done // total
-        stream.write(f"\raudit [{'#' * filled}{'.' * (30 - filled)}] {done}/{total} cells")
-        if done == total:
+        bar = f"audit [{'#' * filled}{'.' * (30 - filled)}] {done}/{total} cells"
+        stream.write(f"\r{bar}" if live else f"{bar}\n")
+        if live and done == total:
             stream.write("\n")
         stream.flush()
 
