@@ -376,6 +376,7 @@ class _Writer:
     # -- sheets ----------------------------------------------------------------------------
     def start_sheet(self, sheets):
         ws = self.book.add_worksheet("Start here")
+        ws.fit_to_pages(1, 0)
         ws.set_column(0, 0, 110)
         ws.write(0, 0, "Notchwise reference workbook: DC motor starters, worked cases", self.fmt["title"])
         ws.write(1, 0, CAUTION, self.fmt["caution"])
@@ -407,6 +408,8 @@ class _Writer:
 
     def case_sheet(self, sheet: Sheet):
         ws = self.book.add_worksheet(sheet.name)
+        ws.set_landscape()
+        ws.fit_to_pages(1, 0)
         ws.set_column(0, 0, 46)
         ws.set_column(1, 1, 12)
         ws.set_column(2, 2, 8)
@@ -506,6 +509,8 @@ class _Writer:
 
     def computed_sheet(self):
         ws = self.book.add_worksheet("Computed cells")
+        ws.set_landscape()
+        ws.fit_to_pages(1, 0)
         ws.set_column(0, 1, 16)
         ws.set_column(2, 2, 26)
         ws.set_column(3, 4, 60)
@@ -543,6 +548,7 @@ class _Writer:
 
     def cautions_sheet(self):
         ws = self.book.add_worksheet("Cautions")
+        ws.fit_to_pages(1, 0)
         ws.set_column(0, 0, 110)
         ws.write(0, 0, "Cautions", self.fmt["title"])
         for r, line in enumerate(CAUTIONS, start=2):
