@@ -189,7 +189,7 @@ def load_book(data: bytes):
                         date_formats=book._date_formats, timedelta_formats=book._timedelta_formats,
                     )
                     for _, cells in parser.parse():
-                        counted += len(cells)
+                        counted += 0 if data_only else len(cells)  # each cell counted once, in the first pass
                         if counted > LIMITS.cells:
                             raise UnreadableWorkbook(f"the workbook holds more than {LIMITS.cells:,} cells (the limit)")
                         for cell in cells:
@@ -267,9 +267,9 @@ def split_call(formula: str):
         raise _NotRecomputable("the NW_ call is part of a larger expression")
     arguments, current, depth = [], [], 0
     for token in tokens[1:-1]:
-        if token.type in ("FUNC", "PAREN") and token.subtype == "OPEN":
+        if token.type in ("FUNC", "PAREN", "ARRAY") and token.subtype == "OPEN":
             depth += 1
-        elif token.type in ("FUNC", "PAREN") and token.subtype == "CLOSE":
+        elif token.type in ("FUNC", "PAREN", "ARRAY") and token.subtype == "CLOSE":
             depth -= 1
             if depth < 0:
                 raise _NotRecomputable("the NW_ call is part of a larger expression")
@@ -318,8 +318,10 @@ class _Resolver:
             where, ref = text.rsplit("!", 1)
             if where.startswith("'") and where.endswith("'"):
                 where = where[1:-1].replace("''", "'")
-            if where.startswith("[") or "[" in where:
+            if "[" in where:
                 raise _NotRecomputable(f"{text} refers to another workbook")
+            if ":" in where:
+                raise _NotRecomputable(f"{text} spans several sheets")
             if where not in self.sheets:
                 raise _NotRecomputable(f"{text} refers to a sheet this workbook does not have")
         else:
@@ -480,7 +482,12 @@ def audit_bytes(data: bytes, source: str = "", progress=None) -> Audit:
     ]
     cells = []
     for k, (title, row, col, formula) in enumerate(todo):
-        cells.append(audit_cell(resolver, sheets, title, row, col, formula))
+        try:
+            cells.append(audit_cell(resolver, sheets, title, row, col, formula))
+        except Exception as error:  # a fault of ours on an odd formula: listed, never a traceback
+            found = CellAudit(title, f"R{row}C{col}", str(getattr(formula, "text", formula)))
+            found.reason = f"the audit could not read this formula ({type(error).__name__}: {error})"
+            cells.append(found)
         if progress:
             progress(k + 1, len(todo))
     return Audit(source, hashlib.sha256(data).hexdigest(), started, tool_version(), notes, cells)
@@ -615,6 +622,9 @@ def run(arguments) -> int:
         audit = audit_bytes(data, str(path), progress=_progress_bar(sys.stderr))
     except UnreadableWorkbook as error:
         print(f"notchwise audit: {path}: {error}", file=sys.stderr)
+        return 2
+    except Exception as error:  # anything unforeseen in a stranger's file is still one line and exit 2
+        print(f"notchwise audit: {path}: cannot read the workbook ({type(error).__name__}: {error})", file=sys.stderr)
         return 2
     try:
         write_atomically(report, render_html(audit))

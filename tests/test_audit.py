@@ -83,6 +83,11 @@ def test_within_the_stated_tolerance_agrees(tmp_path, capsys):
         ("=NW_SERIES_TORQUE(A1,[2]Sheet1!A1:B4,lin_speed)", "another workbook"),
         ("=NW_SERIES_TORQUE(A1,Nowhere!A1:B4,lin_speed)", "does not have"),
         ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed,1,2)", "at most 3 arguments"),
+        ("=NW_SERIES_TORQUE({1,2},lin_curve,lin_speed)", "is an expression"),
+        ("=NW_SERIES_TORQUE((A1),lin_curve,lin_speed)", "is an expression"),
+        ("=NW_SERIES_TORQUE(A1%,lin_curve,lin_speed)", "is an expression"),
+        ("=NW_SERIES_TORQUE(Torques:Torques!A1,lin_curve,lin_speed)", "spans several sheets"),
+        ("=NW_SERIES_TORQUE(Table1[amps],lin_curve,lin_speed)", "neither a cell reference nor a defined name"),
     ],
 )
 def test_other_formulas_are_listed_not_recomputed_with_the_reason(tmp_path, capsys, formula, reason):
