@@ -26,9 +26,12 @@ import inspect
 import io
 import math
 import os
+import re
 import sys
 import tempfile
+import warnings
 import zipfile
+import zlib
 from importlib import metadata
 from pathlib import Path
 
@@ -106,6 +109,8 @@ def check_archive(data: bytes) -> list:
         archive = zipfile.ZipFile(io.BytesIO(data))
     except zipfile.BadZipFile:
         raise UnreadableWorkbook("not a workbook: the file is not a zip archive (or it is truncated)") from None
+    except _ZIP_FAULTS as error:
+        raise UnreadableWorkbook(f"the zip is damaged: {type(error).__name__}: {error}") from None
     with archive:
         members = archive.infolist()
         if len(members) > LIMITS.members:
@@ -119,7 +124,7 @@ def check_archive(data: bytes) -> list:
         for member in members:
             if member.file_size > LIMITS.ratio_from and member.file_size > LIMITS.ratio * max(member.compress_size, 1):
                 raise UnreadableWorkbook(
-                    f"zip member {member.filename} would expand {member.file_size / max(member.compress_size, 1):.0f}"
+                    f"zip member {member.filename!r} would expand {member.file_size / max(member.compress_size, 1):.0f}"
                     f" times (limit {LIMITS.ratio:.0f}): a possible zip bomb"
                 )
         expanded = 0
@@ -132,15 +137,21 @@ def check_archive(data: bytes) -> list:
                         expanded += len(chunk)
                         if seen > member.file_size or expanded > LIMITS.expanded_bytes:
                             raise UnreadableWorkbook(
-                                f"zip member {member.filename} expands beyond its declared size: a possible zip bomb"
+                                f"zip member {member.filename!r} expands beyond its declared size: a possible zip bomb"
                             )
-            except (zipfile.BadZipFile, EOFError, ValueError, NotImplementedError, OSError) as error:
-                raise UnreadableWorkbook(f"the zip is damaged at {member.filename}: {error}") from None
+            except _ZIP_FAULTS as error:
+                raise UnreadableWorkbook(f"the zip is damaged at {member.filename!r}: {error}") from None
     return [
         f"contains a macro part ({m.filename}); it was not run and is not audited"
         for m in members
         if m.filename.lower().rsplit("/", 1)[-1] in MACRO_PARTS
     ]
+
+
+#: What a damaged zip raises in the standard library: bad headers or streams, odd versions or names, encryption.
+_ZIP_FAULTS = (
+    zipfile.BadZipFile, zlib.error, EOFError, ValueError, NotImplementedError, OSError, UnicodeError, RuntimeError,
+)
 
 
 def _too_big(size: int) -> str:
@@ -172,6 +183,12 @@ def load_book(data: bytes):
 
     if not openpyxl.DEFUSEDXML:
         raise UnreadableWorkbook("defusedxml is not active in openpyxl; refusing to parse a file from outside")
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore")  # openpyxl's remarks on odd files: the audit reports what matters
+        return _load_book(openpyxl, WorkSheetParser, data)
+
+
+def _load_book(openpyxl, WorkSheetParser, data: bytes):
     try:
         book = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False, keep_links=False)
     except UnreadableWorkbook:
@@ -249,15 +266,23 @@ def _function_name(token_value: str) -> str:
 
 def calls_nw(formula: str) -> bool:
     """True where the formula text calls a function named NW_..."""
-    return "NW_" in formula.upper() and any(
-        t.type == "FUNC" and t.subtype == "OPEN" and _function_name(t.value).startswith("NW_") for t in _tokens(formula)
-    )
+    if "NW_" not in formula.upper():
+        return False
+    try:
+        tokens = _tokens(formula)
+    except _NotRecomputable:  # unparseable: listed, so that the reason shows in the report
+        return re.search(r"NW_\w*\s*\(", formula, re.IGNORECASE) is not None
+    return any(t.type == "FUNC" and t.subtype == "OPEN" and _function_name(t.value).startswith("NW_") for t in tokens)
 
 
 def _tokens(formula: str) -> list:
     from openpyxl.formula import Tokenizer
+    from openpyxl.formula.tokenizer import TokenizerError
 
-    return [t for t in Tokenizer(formula).items if t.type != "WHITE-SPACE"]
+    try:
+        return [t for t in Tokenizer(formula).items if t.type != "WHITE-SPACE"]
+    except TokenizerError as error:
+        raise _NotRecomputable(f"the formula cannot be parsed ({error})") from None
 
 
 def split_call(formula: str):
@@ -611,6 +636,10 @@ def add_parser(subparsers) -> None:
     parser.set_defaults(run=run)
 
 
+def _one_line(error) -> str:
+    return " ".join(str(error).split())
+
+
 def run(arguments) -> int:
     """Audit the workbook; print the summary and the caution; return the exit status."""
     path = Path(arguments.path)
@@ -621,10 +650,11 @@ def run(arguments) -> int:
         data = read_file_bytes(path)
         audit = audit_bytes(data, str(path), progress=_progress_bar(sys.stderr))
     except UnreadableWorkbook as error:
-        print(f"notchwise audit: {path}: {error}", file=sys.stderr)
+        print(f"notchwise audit: {path}: {_one_line(error)}", file=sys.stderr)
         return 2
     except Exception as error:  # anything unforeseen in a stranger's file is still one line and exit 2
-        print(f"notchwise audit: {path}: cannot read the workbook ({type(error).__name__}: {error})", file=sys.stderr)
+        print(f"notchwise audit: {path}: cannot read the workbook ({type(error).__name__}: {_one_line(error)})",
+              file=sys.stderr)
         return 2
     try:
         write_atomically(report, render_html(audit))

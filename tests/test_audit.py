@@ -15,11 +15,14 @@ from pathlib import Path
 
 import pytest
 import xlsxwriter
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
 from addin import CAUTION, audit
 from addin.cli import main
 from tests import workbook_files as wf
 
+SMALL = wf.torque_workbook([50.0, 150.0])
 REFERENCE = Path(__file__).resolve().parents[1] / "workbooks" / "notchwise-reference.xlsx"
 
 
@@ -288,3 +291,38 @@ def test_an_xlsxwriter_array_formula_over_a_larger_range(tmp_path):
     book.close()
     cell = audit.audit_bytes(out.getvalue()).cells[0]
     assert cell.address == "A1:A3" and cell.verdict == "agrees", cell
+
+
+@settings(max_examples=80, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(data=st.data())
+def test_any_damaged_copy_of_a_workbook_is_read_or_refused_never_a_crash(data):
+    original = bytearray(SMALL)
+    for _ in range(data.draw(st.integers(1, 8))):
+        at = data.draw(st.integers(0, len(original) - 1))
+        original[at] = data.draw(st.integers(0, 255))
+    cut = data.draw(st.integers(len(original) // 2, len(original)))
+    try:
+        found = audit.audit_bytes(bytes(original[:cut]))
+    except audit.UnreadableWorkbook as error:
+        assert str(error) and "\n" not in str(error)
+    else:
+        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(data=st.data())
+def test_any_damaged_sheet_inside_a_sound_zip_is_read_or_refused_never_a_crash(data):
+    member = data.draw(st.sampled_from(["xl/worksheets/sheet1.xml", "xl/sharedStrings.xml", "xl/workbook.xml"]))
+
+    def damage(body: bytes) -> bytes:
+        body = bytearray(body)
+        for _ in range(data.draw(st.integers(1, 4))):
+            body[data.draw(st.integers(0, len(body) - 1))] = data.draw(st.sampled_from(list(b'<>"=/ 09aZ&;(),:!$')))
+        return bytes(body)
+
+    try:
+        found = audit.audit_bytes(wf.replace_member(SMALL, member, damage))
+    except audit.UnreadableWorkbook as error:
+        assert str(error)
+    else:
+        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)

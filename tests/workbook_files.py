@@ -11,6 +11,7 @@ SIAM J. Numer. Anal. 17(2), 1980: the interpolant reproduces linear data).
 
 from __future__ import annotations
 
+import datetime as dt
 import io
 import math
 import struct
@@ -47,6 +48,7 @@ def torque_workbook(currents, saved=None, vba: bytes | None = None, extra=None) 
     saved = saved or torque_closed_form
     out = io.BytesIO()
     book = xlsxwriter.Workbook(out, {"in_memory": True})
+    book.set_properties({"created": dt.datetime(2026, 1, 5)})  # the same bytes on every call
     sheet = book.add_worksheet("Torques")
     _curve_sheet(book)
     for r, current in enumerate(currents):
