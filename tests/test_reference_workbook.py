@@ -216,3 +216,23 @@ def test_libreoffice_shows_the_inputs(shown_by_libreoffice):
             for row in book[title].iter_rows(*_bounds(ref)):
                 for cell in row:
                     assert _agrees(_as_shown(shown_by_libreoffice, title, cell.coordinate), cell.value)
+
+
+def test_a_chart_of_a_spilled_table_is_drawn_from_its_cells_below_the_header(tmp_path):
+    # The mechanism for a starting diagram: a chart of columns of a table result, by declaration only.
+    from workbooks.build_reference import Chart, Result, Sheet
+
+    hoist = SHEETS[0]
+    graded = hoist.results[0]
+    charted = Result(graded.title, graded.function, graded.arguments, graded.basis,
+                     chart=Chart("Resistance in circuit per notch", x=0, y=(1, 2), y_label="resistance [ohm]"))
+    sheet = Sheet("Charted", hoist.title, hoist.story, hoist.inputs, (charted,))
+    path = tmp_path / "charted.xlsx"
+    cells = build(path, sheets=(sheet,))
+    chart = zipfile.ZipFile(path).read("xl/charts/chart1.xml").decode()
+    table = next(c for c in cells if c.function == "NW_GRADE_SERIES")
+    first, last = table.where.split(":")
+    first_row, last_row = int(re.sub(r"\D", "", first)), int(re.sub(r"\D", "", last))
+    assert f"Charted!$F${first_row + 1}:$F${last_row}" in chart  # notch numbers, below the header row
+    assert f"Charted!$G${first_row + 1}:$G${last_row}" in chart and f"Charted!$H${first_row + 1}:$H${last_row}" in chart
+    assert "R in circuit [ohm]" in chart and "resistance [ohm]" in chart

@@ -100,14 +100,23 @@ class Result:
     basis: str
     unit: str = ""
     labels: tuple = ()
+    chart: Chart | None = None
 
 
 @dataclass(frozen=True)
 class Chart:
-    """A native scatter chart of one sweep column against the sweep's input column."""
+    """A native scatter chart drawn from cells, so it follows edits.
+
+    Columns count across the block the chart belongs to: for a sweep, 0 is the
+    input column and 1, 2, ... its result columns; for a spilled table
+    result, 0 is its first column (its header row names the series). A
+    starting diagram, for instance, is a chart of a time-history table.
+    """
 
     title: str
-    column: int
+    x: int
+    y: tuple
+    y_label: str = ""
 
 
 @dataclass(frozen=True)
@@ -197,7 +206,7 @@ def _hoist_sheet() -> Sheet:
                      FUNCTION_BASIS["machine"]),
                     ("developed torque [N·m]", "NW_SERIES_TORQUE", (EACH, *curve), FUNCTION_BASIS["machine"]),
                 ),
-                Chart("Hoist motor: speed against armature current", column=0),
+                Chart("Hoist motor: speed against armature current", x=0, y=(1,)),
             ),
         ),
         notes=(SERIES_WARNING,),
@@ -464,6 +473,12 @@ class _Writer:
         where = self._write_result(ws, row, col, formula, value)
         if result.unit:
             ws.write(row, col + 1, result.unit, self.fmt["unit"])
+        if result.chart and isinstance(value, list):
+            header = [str(v) for v in value[0]] if all(isinstance(v, str) for v in value[0]) else []
+            names = header or [f"column {k + 1}" for k in range(len(value[0]))]
+            first = row + (1 if header else 0)
+            self._chart(ws, sheet.name, result.chart, names, first, row + len(value) - 1, col,
+                        (row, col + len(value[0]) + 1))
         self.computed.append(Computed(sheet.name, where, result.function, formula, inputs, value, result.basis,
                                       result.title))
         return row + (len(value) - 1 if isinstance(value, list) else 0)
@@ -485,27 +500,30 @@ class _Writer:
         last = first + len(sweep.input.rows) - 1
         self.book.define_name(sweep.input.name, f"='{sheet.name}'!{xl_range_abs(first, col, last, col)}")
         if sweep.chart:
-            self._chart(ws, sheet, sweep, first, last, col, row)
+            names = [sweep.input.columns[0], *(c[0] for c in sweep.columns)]
+            self._chart(ws, sheet.name, sweep.chart, names, first, last, col, (row, col + 2 + len(sweep.columns)))
         return last
 
-    def _chart(self, ws, sheet, sweep, first, last, col, anchor_row):
+    def _chart(self, ws, sheet_name, spec: Chart, names, first, last, col, where):
+        """A scatter chart of block columns ``spec.y`` against ``spec.x``, rows ``first`` to ``last``."""
         chart = self.book.add_chart({"type": "scatter", "subtype": "straight_with_markers"})
-        y_col = col + 1 + sweep.chart.column
-        chart.add_series({
-            "name": sweep.columns[sweep.chart.column][0],
-            "categories": [sheet.name, first, col, last, col],
-            "values": [sheet.name, first, y_col, last, y_col],
-            "line": {"color": INK, "width": 1.75},
-            "marker": {"type": "diamond", "size": 6, "fill": {"color": SAND_EDGE}, "border": {"color": INK}},
-        })
-        chart.set_title({"name": sweep.chart.title, "name_font": {"size": 11, "color": INK}})
-        chart.set_x_axis({"name": sweep.input.columns[0], "major_gridlines": {"visible": True,
-                                                                              "line": {"color": MIST}}})
-        chart.set_y_axis({"name": sweep.columns[sweep.chart.column][0],
-                          "major_gridlines": {"visible": True, "line": {"color": MIST}}})
-        chart.set_legend({"none": True})
+        colours = (INK, SAND_EDGE, MIST_EDGE, "#8A2D1E")
+        for k, y in enumerate(spec.y):
+            chart.add_series({
+                "name": names[y],
+                "categories": [sheet_name, first, col + spec.x, last, col + spec.x],
+                "values": [sheet_name, first, col + y, last, col + y],
+                "line": {"color": colours[k % len(colours)], "width": 1.75},
+                "marker": {"type": "diamond", "size": 6, "fill": {"color": SAND_EDGE},
+                           "border": {"color": colours[k % len(colours)]}},
+            })
+        grid = {"visible": True, "line": {"color": MIST}}
+        chart.set_title({"name": spec.title, "name_font": {"size": 11, "color": INK}})
+        chart.set_x_axis({"name": names[spec.x], "major_gridlines": grid})
+        chart.set_y_axis({"name": spec.y_label or names[spec.y[0]], "major_gridlines": grid})
+        chart.set_legend({"none": True} if len(spec.y) == 1 else {"position": "bottom"})
         chart.set_plotarea({"fill": {"color": "#FCFCFA"}})
-        ws.insert_chart(anchor_row, col + 2 + len(sweep.columns), chart, {"x_scale": 1.25, "y_scale": 1.2})
+        ws.insert_chart(*where, chart, {"x_scale": 1.25, "y_scale": 1.2})
 
     def computed_sheet(self):
         ws = self.book.add_worksheet("Computed cells")
