@@ -523,6 +523,8 @@ def audit_bytes(data: bytes, source: str = "", progress=None) -> Audit:
 
 def _show(value, limit: int = 12) -> str:
     """A value or a range as short text; ranges show their size and first cells."""
+    if isinstance(value, list) and len(value) == 1 and len(value[0]) == 1:
+        return _show(value[0][0])
     if isinstance(value, list):
         flat = [c for row in value for c in row]
         shown = ", ".join(_show(c) for c in flat[:limit])
@@ -542,7 +544,21 @@ th { background: #1d3b53; color: white; }
 tr.differs td { background: #f6d8d2; }
 tr.not td { background: #eeeeee; }
 code { white-space: pre-wrap; word-break: break-all; }
+table.inner { width: auto; font-size: 85%; }
+table.inner td { border-color: #e3ecf1; padding: .1em .3em; }
 """
+
+
+TABLE_CELLS_SHOWN = 400  # a saved or recomputed range up to this size is shown whole in the report
+
+
+def _html_value(value) -> str:
+    """A value, or a range as a small table of all its cells (escaped)."""
+    several = isinstance(value, list) and value and (len(value) > 1 or len(value[0]) > 1)
+    if several and sum(len(r) for r in value) <= TABLE_CELLS_SHOWN:
+        rows = "".join("<tr>" + "".join(f"<td>{html.escape(_show(c))}</td>" for c in row) + "</tr>" for row in value)
+        return f'<table class="inner">{rows}</table>'
+    return html.escape(_show(value))
 
 
 def render_html(audit: Audit) -> str:
@@ -556,7 +572,7 @@ def render_html(audit: Audit) -> str:
         verdict = e(c.verdict) + (f"<br><small>{e(c.reason)}</small>" if c.reason else "")
         rows.append(
             f'<tr class="{klass}"><td>{e(c.sheet)}!{e(c.address)}</td><td><code>{e(c.formula)}</code></td>'
-            f"<td>{inputs}</td><td>{e(_show(c.saved))}</td><td>{e(_show(c.recomputed)) if c.verdict != 'not recomputed' else ''}</td>"
+            f"<td>{inputs}</td><td>{_html_value(c.saved)}</td><td>{_html_value(c.recomputed) if c.verdict != 'not recomputed' else ''}</td>"
             f"<td>{difference}</td><td>{verdict}</td></tr>"
         )
     notes = "".join(f"<li>{e(n)}</li>" for n in audit.notes)
