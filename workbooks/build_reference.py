@@ -338,7 +338,7 @@ class _Writer:
         self.computed: list[Computed] = []
 
     # -- helpers ---------------------------------------------------------------------------
-    def _argument(self, argument, sheet_name, each=None):
+    def _argument(self, argument, each=None):
         """(formula text, cell value, description) of one argument."""
         if argument is None:
             return "", None, "(skipped: default)"
@@ -351,8 +351,8 @@ class _Writer:
         shown = f"{value:g}" if isinstance(value, float) else f"table of {len(value)} rows"
         return argument, value, f"{argument} = {shown}"
 
-    def _call(self, function, arguments, sheet_name, each=None):
-        parts = [self._argument(a, sheet_name, each) for a in arguments]
+    def _call(self, function, arguments, each=None):
+        parts = [self._argument(a, each) for a in arguments]
         while parts and parts[-1][0] == "":
             parts.pop()
         formula = f"={function}({','.join(p[0] for p in parts)})"
@@ -469,7 +469,7 @@ class _Writer:
         if result.labels:
             ws.write_row(row, col, result.labels, self.fmt["unit"])
             row += 1
-        formula, value, inputs = self._call(result.function, result.arguments, sheet.name)
+        formula, value, inputs = self._call(result.function, result.arguments)
         where = self._write_result(ws, row, col, formula, value)
         if result.unit:
             ws.write(row, col + 1, result.unit, self.fmt["unit"])
@@ -493,7 +493,7 @@ class _Writer:
             self._write_value(ws, at, col, current, self.fmt["input"])
             ref = xl_rowcol_to_cell(at, col)
             for c, (_, function, arguments, basis) in enumerate(sweep.columns):
-                formula, value, inputs = self._call(function, arguments, sheet.name, each=(ref, current))
+                formula, value, inputs = self._call(function, arguments, each=(ref, current))
                 where = self._write_result(ws, at, col + 1 + c, formula, value)
                 self.computed.append(Computed(sheet.name, where, function, formula, inputs, value, basis,
                                               sweep.title, in_sweep=True))
