@@ -35,6 +35,13 @@ import zlib
 from importlib import metadata
 from pathlib import Path
 
+import openpyxl
+from openpyxl.formula import Tokenizer
+from openpyxl.formula.tokenizer import TokenizerError
+from openpyxl.utils.cell import get_column_letter, range_boundaries
+from defusedxml import DefusedXmlException
+from openpyxl.worksheet._reader import WorkSheetParser
+
 from . import CAUTION, udfs
 from .cells import call_with_cells
 
@@ -167,8 +174,6 @@ class _Sheet:
 
 
 def _entity_attack(error: BaseException) -> bool:
-    from defusedxml import DefusedXmlException
-
     while error is not None:
         if isinstance(error, DefusedXmlException):
             return True
@@ -178,17 +183,14 @@ def _entity_attack(error: BaseException) -> bool:
 
 def load_book(data: bytes):
     """Sheets (formulas and saved values, only the cells present) and defined names."""
-    import openpyxl
-    from openpyxl.worksheet._reader import WorkSheetParser
-
     if not openpyxl.DEFUSEDXML:
         raise UnreadableWorkbook("defusedxml is not active in openpyxl; refusing to parse a file from outside")
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")  # openpyxl's remarks on odd files: the audit reports what matters
-        return _load_book(openpyxl, WorkSheetParser, data)
+        return _load_book(data)
 
 
-def _load_book(openpyxl, WorkSheetParser, data: bytes):
+def _load_book(data: bytes):
     try:
         book = openpyxl.load_workbook(io.BytesIO(data), read_only=True, data_only=False, keep_links=False)
     except UnreadableWorkbook:
@@ -199,6 +201,8 @@ def _load_book(openpyxl, WorkSheetParser, data: bytes):
     try:
         for ws in book.worksheets:
             sheet = _Sheet({}, {})
+            # openpyxl's own sheet parser, as its read-only sheets use it, but reading only the cells
+            # present: a read-only sheet pads every row to the dimension the file claims.
             for data_only, target in ((False, sheet.formulas), (True, sheet.values)):
                 with ws._get_source() as source:
                     parser = WorkSheetParser(
@@ -276,9 +280,6 @@ def calls_nw(formula: str) -> bool:
 
 
 def _tokens(formula: str) -> list:
-    from openpyxl.formula import Tokenizer
-    from openpyxl.formula.tokenizer import TokenizerError
-
     try:
         return [t for t in Tokenizer(formula).items if t.type != "WHITE-SPACE"]
     except TokenizerError as error:
@@ -337,8 +338,6 @@ class _Resolver:
         return self.reference(token.value, sheet, depth=0), text
 
     def reference(self, text: str, sheet: str, depth: int):
-        from openpyxl.utils.cell import range_boundaries
-
         if "!" in text:
             where, ref = text.rsplit("!", 1)
             if where.startswith("'") and where.endswith("'"):
@@ -429,8 +428,6 @@ def compare(saved: list, recomputed: list):
 
 def audit_cell(resolver: _Resolver, sheets, sheet: str, row: int, col: int, formula) -> CellAudit:
     """Recompute one NW_ cell and compare with what the file saved."""
-    from openpyxl.utils.cell import get_column_letter, range_boundaries
-
     text = getattr(formula, "text", formula)
     address = f"{get_column_letter(col)}{row}"
     first_col, first_row, last_col, last_row = col, row, col, row
