@@ -36,10 +36,10 @@ from importlib import metadata
 from pathlib import Path
 
 import openpyxl
+from defusedxml import DefusedXmlException
 from openpyxl.formula import Tokenizer
 from openpyxl.formula.tokenizer import TokenizerError
 from openpyxl.utils.cell import get_column_letter, range_boundaries
-from defusedxml import DefusedXmlException
 from openpyxl.worksheet._reader import WorkSheetParser
 
 from . import CAUTION, udfs
