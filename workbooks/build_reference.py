@@ -280,8 +280,9 @@ def _contractor_sheet() -> Sheet:
 SHEETS = (_hoist_sheet(), _conveyor_sheet(), _contractor_sheet())
 
 HOW_TO_GO_LIVE = (
-    "The figures you see were computed by Notchwise when this file was built and are saved with it; "
-    "they show in Excel, LibreOffice or a viewer without the add-in. To make the functions live:",
+    "The figures you see were computed by Notchwise when this file was built and are saved with it, so Excel "
+    "shows them without the add-in. LibreOffice recomputes spilled tables on opening (they then read #NAME?); "
+    "the Computed cells sheet lists every figure as built. To make the functions live:",
     "1. Install Python with Notchwise (pip install notchwise, or pip install -e . in its source folder) "
     "and the xlwings add-in (xlwings addin install).",
     "2. Save this workbook as an Excel macro-enabled workbook (.xlsm).",
