@@ -40,6 +40,7 @@ __all__ = [
     "table",
     "column",
     "spill",
+    "call_with_cells",
 ]
 
 ERROR_PREFIX = "Error: "
@@ -73,6 +74,8 @@ def cell_function(tables: tuple = (), **arg_docs: str):
 
         # xlwings reads the signature to write the VBA wrapper: keep the wrapped one.
         guarded.__signature__ = signature
+        # Those who call it without Excel (the reference workbook, the audit) shape ranges by this.
+        guarded.table_arguments = tuple(tables)
         registered = guarded
         for name, doc in arg_docs.items():
             options = {"ndim": 2} if name in tables else {}
@@ -235,3 +238,28 @@ def spill(header: list, rows, headers: bool = True) -> list:
     """
     body = [[_cell(v) for v in row] for row in rows]
     return [list(header)] + body if headers else body
+
+
+def call_with_cells(func, arguments):
+    """Call a spreadsheet function with cell values shaped as Excel hands them over through xlwings.
+
+    ``arguments`` holds one entry per argument, in order: a single value, or a
+    range as a list of rows; None for a blank or skipped argument. A range
+    given to a table argument stays a list of rows (``ndim=2``); given to any
+    other argument, a one-cell range becomes its value and a single row or
+    column a flat list, as xlwings' default conversion does.
+    """
+    tables = getattr(func, "table_arguments", ())
+    names = list(inspect.signature(func).parameters)
+    shaped = []
+    for position, value in enumerate(arguments):
+        name = names[position] if position < len(names) else ""
+        if isinstance(value, list) and name not in tables:
+            if len(value) == 1 and len(value[0]) == 1:
+                value = value[0][0]
+            elif len(value) == 1 or all(len(row) == 1 for row in value):
+                value = [cell for row in value for cell in row]
+        elif name in tables and value is not None and not isinstance(value, list):
+            value = [[value]]
+        shaped.append(value)
+    return func(*shaped)

@@ -10,11 +10,11 @@ from __future__ import annotations
 import argparse
 import sys
 
-from . import CAUTION, demo
+from . import CAUTION, audit, demo
 
 __all__ = ["main"]
 
-SUBCOMMANDS = (demo,)
+SUBCOMMANDS = (demo, audit)
 
 
 def main(argv=None) -> int:

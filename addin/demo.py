@@ -1,69 +1,58 @@
-"""``notchwise demo``: the demo cases computed through the spreadsheet functions."""
+"""``notchwise demo``: compute the demo cases and write them as the reference workbook."""
 
 from __future__ import annotations
 
-from workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST
+import sys
+from pathlib import Path
+
+from xlsxwriter.exceptions import FileCreateError
+
+from workbooks.build_reference import SERIES_WARNING, build
 
 from . import CAUTION
-from .udfs import NW_CHECK_SECTIONS, NW_GRADE_SERIES, NW_GRADE_SHUNT, NW_SERIES_MIN_LOAD
 
-__all__ = ["add_parser", "run", "format_table"]
+__all__ = ["add_parser", "run", "format_table", "DEFAULT_OUT"]
+
+DEFAULT_OUT = "notchwise-reference.xlsx"
 
 
 def add_parser(subparsers) -> None:
     """Register the ``demo`` subcommand."""
-    parser = subparsers.add_parser("demo", help="compute the built-in demo cases and print their tables")
+    parser = subparsers.add_parser(
+        "demo", help="compute the demo cases and write the reference workbook (no spreadsheet program needed)"
+    )
+    parser.add_argument("--out", default=DEFAULT_OUT, help=f"where to write the workbook (default: ./{DEFAULT_OUT})")
     parser.set_defaults(run=run)
 
 
 def format_table(rows) -> str:
-    """Rows of cells (a spilled result, or one error text) as aligned plain text."""
-    if isinstance(rows, str):
-        return rows
+    """Rows of cells (a spilled result, or one value or error text) as aligned plain text."""
+    if not isinstance(rows, list):
+        return f"{rows:.6g}" if isinstance(rows, float) else str(rows)
     text = [[f"{c:.4g}" if isinstance(c, float) else str(c) for c in row] for row in rows]
     widths = [max(len(row[k]) for row in text) for k in range(len(text[0]))]
     return "\n".join("  ".join(cell.rjust(w) for cell, w in zip(row, widths)) for row in text)
 
 
 def run(arguments) -> int:
-    """Print the graded starters, the contractor check and the hoist's minimum load."""
-    hoist, conveyor, proposal = HOIST.inputs, CONVEYOR.inputs, CONTRACTOR.inputs
-    sections = [[r] for r in proposal["sections"]]
-    blocks = [
-        (
-            HOIST.title + ": NW_GRADE_SERIES",
-            NW_GRADE_SERIES(
-                hoist["v_supply"], hoist["r_motor"], hoist["i_peak"], hoist["i_switch"],
-                hoist["mag_curve"], None, hoist["brush_drop"],
-            ),
-        ),
-        (
-            CONVEYOR.title + ": NW_GRADE_SHUNT",
-            NW_GRADE_SHUNT(
-                conveyor["v_supply"], conveyor["r_armature"], conveyor["i_peak"], conveyor["i_switch"],
-                None, conveyor["brush_drop"],
-            ),
-        ),
-        (
-            CONTRACTOR.title + ": NW_CHECK_SECTIONS",
-            NW_CHECK_SECTIONS(
-                "series", hoist["v_supply"], hoist["r_motor"], sections, proposal["i_switch"],
-                proposal["i_limit"], proposal["i_commutation"], hoist["mag_curve"], None, None,
-                hoist["brush_drop"],
-            ),
-        ),
-        (
-            HOIST.title + ": NW_SERIES_MIN_LOAD (least current, torque)",
-            [["least current [A]", "developed torque [N·m]"]]
-            + NW_SERIES_MIN_LOAD(
-                hoist["v_supply"], hoist["r_motor"], hoist["n_max"], hoist["mag_curve"],
-                hoist["mag_speed"], hoist["brush_drop"],
-            ),
-        ),
-    ]
-    for title, rows in blocks:
-        print(title)
-        print(format_table(rows))
+    """Write the workbook and print each case's results, the sweeps counted, and the caution."""
+    out = Path(arguments.out)
+    try:
+        computed = build(out)
+    except (OSError, FileCreateError) as error:
+        print(f"notchwise demo: cannot write {out}: {error}", file=sys.stderr)
+        return 2
+    swept = {}
+    for cell in computed:
+        if cell.in_sweep:
+            swept.setdefault((cell.sheet, cell.title), []).append(cell.function)
+            continue
+        print(f"{cell.sheet}: {cell.title} ({cell.function}, {cell.where})")
+        print(format_table(cell.value))
         print()
+    for (sheet, title), functions in swept.items():
+        print(f"{sheet}: {title}: {len(functions)} cells ({', '.join(sorted(set(functions)))}), charted in the workbook")
+    print(f"\nWrote {out} ({len(computed)} computed cells, each saved with its result).")
     print(CAUTION)
+    print(SERIES_WARNING)
     return 0

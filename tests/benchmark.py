@@ -13,6 +13,7 @@ import timeit
 import numpy as np
 
 from addin import udfs
+from addin.audit import audit_bytes
 from formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
 from formulas.grading import check_sections, grade_uniform
 from formulas.protection import ride_through
@@ -80,6 +81,20 @@ CASES = {
 }
 
 
+def _audit_case():
+    """Audit of a workbook with 1,000 NW_ cells (tests/workbook_files.py), built once outside the timing."""
+    from tests.workbook_files import torque_workbook
+
+    data = torque_workbook([0.4 * (k + 1) for k in range(1000)])
+    return lambda: audit_bytes(data)
+
+
+#: name -> (zero-argument callable building the timed call, target in s): whole commands, timed once each run.
+JOBS = {
+    "audit, 1,000 NW_ cells": (_audit_case, 2.0),
+}
+
+
 def median_ms(call, repeat: int = 7) -> float:
     """Median over ``repeat`` runs of the time per call, in ms."""
     runs = timeit.Timer(call).autorange()[0]
@@ -91,6 +106,11 @@ def main() -> None:
     for name, (core, cell, target) in CASES.items():
         core_ms, cell_ms = median_ms(core), median_ms(cell)
         print(f"{name:32s} {core_ms:9.4f} {cell_ms:10.4f} {1e3 * (cell_ms - core_ms):14.1f} {target:10.2f}")
+    print(f"\n{'job':32s} {'median s':>9s} {'target s':>10s}")
+    for name, (make, target) in JOBS.items():
+        job = make()
+        seconds = statistics.median(timeit.repeat(job, number=1, repeat=5))
+        print(f"{name:32s} {seconds:9.3f} {target:10.2f}")
 
 
 if __name__ == "__main__":

@@ -185,3 +185,27 @@ def test_blank_optional_in_the_middle_means_its_default(excel):
     skipped = call_like_excel(conversion, udfs.NW_GRADE_SHUNT, (220.0, 0.05, 300.0, 150.0, M, 2.0, M))
     blank = call_like_excel(conversion, udfs.NW_GRADE_SHUNT, (220.0, 0.05, 300.0, 150.0, None, 2.0, None))
     assert skipped == blank and skipped[0][0] == "notch"
+
+
+@pytest.mark.parametrize(
+    "currents",
+    [((150.0,),), ((50.0, 150.0, 300.0),), ((50.0,), (150.0,), (300.0,))],
+    ids=["one cell", "a row", "a column"],
+)
+def test_cell_values_are_shaped_as_xlwings_converts_them(excel, currents):
+    # The reference workbook and the audit call functions without Excel (addin.cells.call_with_cells);
+    # xlwings' own converters are the reference for how a range reaches each argument.
+    from addin.cells import call_with_cells
+
+    udfs, _, conversion = excel
+    func = udfs.NW_SERIES_TORQUE
+    rows = [list(r) for r in SERIES_CURVE]
+    through_xlwings = call_like_excel(conversion, func, (currents, SERIES_CURVE, ((800.0,),)))
+    direct = call_with_cells(func, [[list(r) for r in currents], rows, [[800.0]]])
+    options = func.__xlfunc__["ret"]["options"]
+    assert conversion.write(direct, None, options) == through_xlwings
+    # A one-row range given to a table argument stays a table (xlwings ndim=2).
+    one_row_curve = call_with_cells(func, [[[150.0]], [rows[1]], [[800.0]]])
+    assert conversion.write(one_row_curve, None, options) == call_like_excel(
+        conversion, func, (150.0, (SERIES_CURVE[1],), 800.0)
+    )

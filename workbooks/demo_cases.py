@@ -50,6 +50,8 @@ HOIST = DemoCase(
             [400.0, 246.0],
             [500.0, 258.0],
         ],
+        # currents at which the speed-current characteristic is drawn [A]
+        "sweep_current": [40.0, 60.0, 80.0, 100.0, 140.0, 180.0, 220.0, 260.0, 300.0, 350.0, 400.0, 450.0, 500.0],
     },
 )
 
@@ -67,7 +69,9 @@ CONVEYOR = DemoCase(
         "i_peak": 380.0,
         "i_switch": 210.0,
         "brush_drop": 2.0,
-        "k_phi": 0.375,
+        "notches": 6.0,
+        "i_rated": 300.0,
+        "n_rated": 1150.0,
     },
 )
 

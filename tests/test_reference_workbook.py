@@ -1,0 +1,238 @@
+"""The reference workbook: built as described, its figures saved, and shown as saved by LibreOffice.
+
+The checks of the figures themselves live with the core modules; here the
+workbook is checked as a file: that the committed file is what the script
+builds (a regression pin, not a check of any figure), that every NW_ cell
+carries its result, and that a real spreadsheet program (LibreOffice Calc,
+headless) shows the saved figures without recalculating.
+"""
+
+from __future__ import annotations
+
+import csv
+import io
+import os
+import re
+import shutil
+import subprocess
+import zipfile
+from pathlib import Path
+
+import openpyxl
+import pytest
+
+from addin import CAUTION
+from addin.audit import calls_nw
+from addin.cli import main
+from workbooks.build_reference import CALC_ID, SHEETS, build
+
+REFERENCE = Path(__file__).resolve().parents[1] / "workbooks" / "notchwise-reference.xlsx"
+
+
+def _contents(path) -> dict:
+    """Every cell's formula (or value) and saved value, sheet by sheet, and the defined names."""
+    formulas = openpyxl.load_workbook(path, data_only=False)
+    values = openpyxl.load_workbook(path, data_only=True)
+    cells = {}
+    for ws in formulas.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                if cell.value is not None:
+                    text = getattr(cell.value, "text", cell.value)
+                    cells[ws.title, cell.coordinate] = (text, values[ws.title][cell.coordinate].value, cell.data_type)
+    names = {name: d.attr_text for name, d in formulas.defined_names.items()}
+    return {"cells": cells, "names": names, "sheets": formulas.sheetnames}
+
+
+def test_committed_workbook_is_what_the_script_builds(tmp_path):
+    # Regression pin: the committed file must be regenerated when the description changes.
+    fresh = tmp_path / "fresh.xlsx"
+    build(fresh)
+    assert _contents(fresh) == _contents(REFERENCE)
+    again = tmp_path / "again.xlsx"
+    build(again)
+    assert again.read_bytes() == fresh.read_bytes(), "the build must be deterministic"
+
+
+def test_every_nw_cell_has_its_result_saved_and_is_listed():
+    contents = _contents(REFERENCE)["cells"]
+    nw = {(s, c): v for (s, c), v in contents.items() if v[2] == "f" and calls_nw(v[0])}
+    assert len(nw) >= 3 + 2 + 1 + 26  # hoist, conveyor, contractor results and the 26 sweep cells
+    assert all(saved is not None for _, saved, _ in nw.values())
+    listed = {(v[0], contents.get(("Computed cells", f"B{r}"), (None,))[0])
+              for (s, c), v in contents.items() if s == "Computed cells" and c.startswith("A")
+              for r in [int(c[1:])]}
+    for sheet, cell in nw:
+        assert (sheet, cell) in listed, f"{sheet}!{cell} is missing from the Computed cells sheet"
+
+
+def test_inputs_are_named_with_units_beside_them():
+    book = openpyxl.load_workbook(REFERENCE)
+    for sheet in SHEETS:
+        for item in sheet.inputs:
+            target = book.defined_names[item.name]
+            ((title, ref),) = list(target.destinations)
+            assert title == sheet.name
+            first = ref.split(":")[0].replace("$", "")
+            ws = book[title]
+            if hasattr(item, "unit"):
+                assert ws[first].value == item.value
+                assert ws[first].offset(column=1).value == item.unit
+            else:  # a table: units in its header row
+                assert all("[" in ws[first].offset(row=-1, column=k).value for k in range(len(item.columns)))
+
+
+def test_file_keeps_its_saved_figures_on_opening():
+    # ECMA-376 Part 1, 18.2.2 (calcPr): no fullCalcOnLoad, and a calcId no older than current Excel's.
+    workbook_xml = zipfile.ZipFile(REFERENCE).read("xl/workbook.xml").decode()
+    calc = re.search(r"<calcPr[^>]*/>", workbook_xml).group(0)
+    assert "fullCalcOnLoad" not in calc and f'calcId="{CALC_ID}"' in calc
+
+
+def test_chart_is_drawn_from_the_sweep_cells():
+    archive = zipfile.ZipFile(REFERENCE)
+    chart = archive.read("xl/charts/chart1.xml").decode()
+    refs = re.findall(r"<c:f>([^<]+)</c:f>", chart)
+    assert len(refs) == 2  # x: the currents, y: the speeds
+    contents = _contents(REFERENCE)["cells"]
+    x_range, y_range = (ref.split("!")[1].replace("$", "") for ref in refs)
+    for cell in openpyxl.load_workbook(REFERENCE)["Hoist"][y_range]:
+        assert contents["Hoist", cell[0].coordinate][0].startswith("=NW_SERIES_SPEED(")
+    for cell in openpyxl.load_workbook(REFERENCE)["Hoist"][x_range]:
+        assert isinstance(contents["Hoist", cell[0].coordinate][0], (int, float))
+
+
+def test_cautions_are_in_the_workbook():
+    text = " ".join(str(v[0]) for (s, _), v in _contents(REFERENCE)["cells"].items() if s in ("Cautions", "Start here"))
+    for words in ("competent person", "local codes", "licensed", "must never be run unloaded", "addin.udfs",
+                  "Import Functions"):
+        assert words in text, words
+
+
+def test_demo_writes_the_workbook_and_prints_the_caution(tmp_path, capsys, monkeypatch):
+    monkeypatch.chdir(tmp_path)
+    assert main(["demo"]) == 0
+    out = capsys.readouterr().out
+    assert (tmp_path / "notchwise-reference.xlsx").is_file()
+    assert CAUTION in out and "NW_GRADE_SERIES" in out and "unloaded" in out
+    assert main(["demo", "--out", str(tmp_path / "elsewhere.xlsx")]) == 0
+    assert _contents(tmp_path / "elsewhere.xlsx") == _contents(REFERENCE)
+
+
+def test_demo_reports_a_folder_it_cannot_write(tmp_path, capsys):
+    assert main(["demo", "--out", str(tmp_path / "no" / "such" / "folder.xlsx")]) == 2
+
+
+# -- LibreOffice ---------------------------------------------------------------------------
+
+
+def _soffice():
+    found = shutil.which("soffice") or shutil.which("libreoffice")
+    if found is None:
+        if os.environ.get("CI") == "true":
+            pytest.fail("LibreOffice (soffice) must be installed in CI: see .ci/run")
+        pytest.skip("LibreOffice is not installed here (it is in CI)")
+    return found
+
+
+@pytest.fixture(scope="module")
+def shown_by_libreoffice(tmp_path_factory):
+    """Every sheet of the reference workbook as LibreOffice shows it, from its headless CSV export."""
+    soffice = _soffice()
+    work = tmp_path_factory.mktemp("libreoffice")
+    source = work / "reference.xlsx"
+    shutil.copyfile(REFERENCE, source)
+    # Filter options: comma, double quote, UTF-8, from line 1, ..., raw values not as formatted, all sheets (-1).
+    target = "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,false,false,false,-1"
+    subprocess.run(
+        [soffice, f"-env:UserInstallation=file://{work}/profile", "--headless", "--norestore",
+         "--convert-to", target, "--outdir", str(work / "out"), str(source)],
+        check=True, timeout=240, capture_output=True,
+    )
+    shown = {}
+    for sheet in openpyxl.load_workbook(REFERENCE, read_only=True).sheetnames:
+        path = work / "out" / f"reference-{sheet}.csv"
+        shown[sheet] = list(csv.reader(io.StringIO(path.read_text(encoding="utf-8"))))
+    return shown
+
+
+def _bounds(ref):
+    min_col, min_row, max_col, max_row = openpyxl.utils.cell.range_boundaries(ref.replace("$", ""))
+    return min_row, max_row, min_col, max_col
+
+
+def _as_shown(shown, sheet, coordinate):
+    row, col = openpyxl.utils.cell.coordinate_to_tuple(coordinate)
+    rows = shown[sheet]
+    return rows[row - 1][col - 1] if row <= len(rows) and col <= len(rows[row - 1]) else ""
+
+
+def _agrees(text: str, saved) -> bool:
+    if isinstance(saved, (int, float)):
+        try:
+            return abs(float(text) - saved) <= 1e-12 * max(1.0, abs(saved))  # LibreOffice prints 15 digits
+        except ValueError:
+            return False
+    return text == ("" if saved is None else str(saved))
+
+
+def test_libreoffice_shows_the_saved_results_of_nw_cells(shown_by_libreoffice):
+    # Every NW_ cell that is not a spilled table: those are array formulas, which LibreOffice 7.4
+    # recomputes on import (see the next test), and are checked there.
+    formulas = openpyxl.load_workbook(REFERENCE)
+    values = openpyxl.load_workbook(REFERENCE, data_only=True)
+    checked = 0
+    for ws in formulas.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                if cell.data_type == "f" and isinstance(cell.value, str) and calls_nw(cell.value):
+                    saved = values[ws.title][cell.coordinate].value
+                    text = _as_shown(shown_by_libreoffice, ws.title, cell.coordinate)
+                    assert text != "#NAME?", f"LibreOffice recalculated {ws.title}!{cell.coordinate}"
+                    assert _agrees(text, saved), (ws.title, cell.coordinate, text, saved)
+                    checked += 1
+    assert checked >= 2 + 26  # residual speed, k_phi and the sweep
+
+
+def test_libreoffice_shows_every_computed_cell_as_built_on_the_computed_cells_sheet(shown_by_libreoffice):
+    # Spilled tables are array formulas, which LibreOffice 7.4 recomputes on import (it keeps no cached
+    # matrix results: sc/source/filter/oox/formulabuffer.cxx, applyArrayFormulas), so in place they read
+    # #NAME? there; the Computed cells sheet lists every one of their cells with its saved figure.
+    values = openpyxl.load_workbook(REFERENCE, data_only=True)
+    listing = shown_by_libreoffice["Computed cells"]
+    header = listing.index(["sheet", "cell", "function", "formula", "inputs (defined name = value)",
+                            "result as built", "published basis"])
+    rows = [r for r in listing[header + 1:] if r and r[0]]
+    assert len(rows) > 60
+    for sheet, cell, _, _, _, shown, _ in rows:
+        assert _agrees(shown, values[sheet][cell].value), (sheet, cell, shown)
+
+
+def test_libreoffice_shows_the_inputs(shown_by_libreoffice):
+    book = openpyxl.load_workbook(REFERENCE)
+    for sheet in SHEETS:
+        for item in sheet.inputs:
+            ((title, ref),) = list(book.defined_names[item.name].destinations)
+            for row in book[title].iter_rows(*_bounds(ref)):
+                for cell in row:
+                    assert _agrees(_as_shown(shown_by_libreoffice, title, cell.coordinate), cell.value)
+
+
+def test_a_chart_of_a_spilled_table_is_drawn_from_its_cells_below_the_header(tmp_path):
+    # The mechanism for a starting diagram: a chart of columns of a table result, by declaration only.
+    from workbooks.build_reference import Chart, Result, Sheet
+
+    hoist = SHEETS[0]
+    graded = hoist.results[0]
+    charted = Result(graded.title, graded.function, graded.arguments, graded.basis,
+                     chart=Chart("Resistance in circuit per notch", x=0, y=(1, 2), y_label="resistance [ohm]"))
+    sheet = Sheet("Charted", hoist.title, hoist.story, hoist.inputs, (charted,))
+    path = tmp_path / "charted.xlsx"
+    cells = build(path, sheets=(sheet,))
+    chart = zipfile.ZipFile(path).read("xl/charts/chart1.xml").decode()
+    table = next(c for c in cells if c.function == "NW_GRADE_SERIES")
+    first, last = table.where.split(":")
+    first_row, last_row = int(re.sub(r"\D", "", first)), int(re.sub(r"\D", "", last))
+    assert f"Charted!$F${first_row + 1}:$F${last_row}" in chart  # notch numbers, below the header row
+    assert f"Charted!$G${first_row + 1}:$G${last_row}" in chart and f"Charted!$H${first_row + 1}:$H${last_row}" in chart
+    assert "R in circuit [ohm]" in chart and "resistance [ohm]" in chart
