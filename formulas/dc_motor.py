@@ -545,7 +545,7 @@ def minimum_load(
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
     n_max = require_positive("n_max", n_max_rpm, "rpm")
-    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    r = require_positive("r_circuit", motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm"), "ohm")
     n_residual = residual_speed_rpm(motor, v_supply_v, brush_drop_v)
 
     def surplus_v(i_a: float) -> float:
