@@ -426,7 +426,7 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
     .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003, Eq. 7.8.
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
-    r = motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm")
+    r = require_positive("r_circuit", motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm"), "ohm")
     i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
     if np.any(i < 0.0):
         raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
