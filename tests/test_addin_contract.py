@@ -25,6 +25,11 @@ from tests.xlwings_standin import EXCEL_MISSING, call_like_excel, real_xlwings
 SERIES_CURVE = (("current A", "EMF V"), (0.0, 5.0), (50.0, 120.0), (100.0, 200.0), (200.0, 290.0), (400.0, 350.0))
 COMPOUND_CURVE = ((0.0, 0.0), (1000.0, 100.0), (3000.0, 200.0), (6000.0, 260.0), (9000.0, 290.0))
 M = EXCEL_MISSING
+SHUNT_MOTOR = (("kind", "shunt"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_circuit", 0.005), ("inertia", 4.0),
+               ("k_phi", 0.2), ("brush_drop", 2.0))
+SERIES_MOTOR = (("Kind", "Series"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_circuit", 0.004),
+                ("inertia", 3.0), ("mag_speed", 800.0))
+SECTIONS = ((0.5,), (0.25,), (0.12,))
 
 #: Valid raw arguments, as Excel passes them, for every spreadsheet function.
 EXAMPLES = {
@@ -37,6 +42,8 @@ EXAMPLES = {
     "NW_SERIES_MIN_LOAD": (220.0, 0.1, 2000.0, SERIES_CURVE, 800.0, M),
     "NW_SERIES_RESIDUAL_SPEED": (220.0, 0.1, SERIES_CURVE, 800.0, M),
     "NW_SHUNT_KPHI": (220.0, 100.0, 1000.0, 0.1, M),
+    "NW_START_SIM": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, M, M),
+    "NW_START_HISTORY": (SERIES_MOTOR, SECTIONS, ((0.0, 200.0), (600.0, 260.0)), ((0.4,), (0.3,), (0.2,)), 50.0, SERIES_CURVE, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.

@@ -1,0 +1,150 @@
+"""Spreadsheet functions for the start in time: notch table, time history, resistor heating, worst case.
+
+The ``motor`` argument of these functions is a two-column range of name/value
+pairs (names in any case, in any order):
+
+=============  ========  ==========================================================
+name           unit      meaning
+=============  ========  ==========================================================
+kind           -         shunt (also separately excited), series or compound
+v_supply       V         supply voltage at the starter
+r_motor        ohm       motor's own circuit resistance (armature plus series field)
+l_circuit      H         inductance of the armature circuit
+inertia        kg·m²     motor plus load, referred to the motor shaft
+k_phi          V/rpm     shunt only: back-EMF per rpm at the working field
+mag_speed      rpm       series, compound: speed at which mag_curve was taken
+brush_drop     V         optional total brush drop (blank: 0 V)
+shunt_at       A         compound only: shunt-field ampere-turns per pole
+series_turns   turns     compound only: series-field turns per pole
+=============  ========  ==========================================================
+"""
+
+from __future__ import annotations
+
+from formulas.dc_motor import SeriesMotor, ShuntMotor
+from formulas.errors import InputError
+from formulas.start_sim import simulate_start, start_history
+
+from .cells import (
+    cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,
+)
+from .starters import MOTOR_KINDS, _compound_motor, _series_curve
+
+__all__ = ["NW_START_SIM", "NW_START_HISTORY"]
+
+MOTOR_NAMES = (
+    "kind", "v_supply", "r_motor", "l_circuit", "inertia", "k_phi", "mag_speed", "brush_drop", "shunt_at", "series_turns",
+)
+#: The names each kind needs besides the common ones; any other name given for that kind is refused.
+KIND_NAMES = {
+    "shunt": ("k_phi",),
+    "series": ("mag_speed",),
+    "compound": ("mag_speed", "shunt_at", "series_turns"),
+}
+COMMON_NAMES = ("kind", "v_supply", "r_motor", "l_circuit", "inertia")
+UNITS = {"v_supply": "V", "r_motor": "ohm", "l_circuit": "H", "inertia": "kg·m²", "k_phi": "V/rpm",
+         "mag_speed": "rpm", "brush_drop": "V", "shunt_at": "A", "series_turns": "turns"}
+
+START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "cut-out current [A]",
+                "speed at cut-out [rpm]", "energy in starting resistance [J]"]
+HISTORY_HEADER = ["time [s]", "current [A]", "speed [rpm]", "motor torque [N·m]"]
+
+_DOC = {
+    "motor": "Two columns of name/value pairs: kind, v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...",
+    "sections": "Section resistances in the order they are cut out: a column or row [ohm]",
+    "load_torque": "Load torque on the motor shaft: a number [N·m] or two columns, speed [rpm] and torque [N·m]",
+    "switching": "Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
+    "mag_curve": "Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
+    "headers": "Optional TRUE (default) for a first row of labels with units [-]",
+}
+
+
+def motor_from_cells(motor, mag_curve):
+    """The machine, supply, brush drop, inductance and inertia from a name/value range."""
+    given = name_values("motor", motor, MOTOR_NAMES)
+    if "kind" not in given:
+        raise _missing("kind")
+    kind = option("motor kind", given["kind"], MOTOR_KINDS)
+    allowed = (*COMMON_NAMES, *KIND_NAMES[kind], "brush_drop")
+    for key in given:
+        if key not in allowed:
+            raise InputError(f"motor row {key} does not apply to a {kind} motor; the names for it are: {', '.join(allowed)}")
+    for key in (*COMMON_NAMES, *KIND_NAMES[kind]):
+        if key not in given:
+            raise _missing(key, kind)
+    values = {key: number(key, raw, UNITS[key]) for key, raw in given.items() if key not in ("kind", "brush_drop")}
+    if kind == "shunt":
+        machine = ShuntMotor(values["r_motor"], values["k_phi"])
+    elif kind == "series":
+        machine = SeriesMotor(values["r_motor"], _series_curve(mag_curve, values["mag_speed"]))
+    else:
+        machine = _compound_motor(values["r_motor"], mag_curve, values["shunt_at"], values["series_turns"], values["mag_speed"])
+    drop = optional_number("brush_drop", given.get("brush_drop"), 0.0, "V")
+    return machine, values["v_supply"], drop, values["l_circuit"], values["inertia"]
+
+
+def _missing(key, kind=None) -> InputError:
+    unit = f" [{UNITS[key]}]" if key in UNITS else ""
+    for_kind = f" for a {kind} motor" if kind else ""
+    return InputError(f"motor needs a row named {key}{unit}{for_kind}")
+
+
+def start_from_cells(motor, sections, load_torque, switching, mag_curve):
+    """Convert the cells of a start and simulate it; returns (machine, result)."""
+    machine, v_supply, drop, l_h, j = motor_from_cells(motor, mag_curve)
+    i_cut, dwells = number_or_column("switching", switching, "A or s")
+    result = simulate_start(
+        machine,
+        v_supply,
+        column("sections", sections, "ohm"),
+        l_h,
+        j,
+        number_or_table("load_torque", load_torque, ("speed", "torque"), ("rpm", "N·m")),
+        i_cut_a=i_cut,
+        dwell_s=dwells,
+        brush_drop_v=drop,
+    )
+    return machine, result
+
+
+@cell_function(
+    tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
+    motor=_DOC["motor"],
+    sections=_DOC["sections"],
+    load_torque=_DOC["load_torque"],
+    switching=_DOC["switching"],
+    mag_curve=_DOC["mag_curve"],
+    headers=_DOC["headers"],
+)
+def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, headers=None):
+    """Time-domain resistor start, one row per notch: start [s], dwell [s], peak and cut-out current [A], speed [rpm], energy [J]; then the run and the whole start."""
+    _, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
+    nan = float("nan")
+    rows = [
+        [k + 1, result.t_start_s[k], result.dwell_s[k], result.i_peak_a[k], result.i_cut_a[k],
+         result.n_cut_rpm[k], result.energy_notch_j[k]]
+        for k in range(result.notches)
+    ]
+    t_last = result.t_start_s[-1] + result.dwell_s[-1]
+    rows.append(["run", t_last, nan, result.i_peak_run_a, nan, nan, nan])
+    rows.append(["whole start", 0.0, result.t_accel_s, max(result.i_peak_a.max(), result.i_peak_run_a), nan,
+                 result.n_final_rpm, result.energy_total_j])
+    return spill(START_HEADER, rows, flag("headers", headers, True))
+
+
+@cell_function(
+    tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
+    motor=_DOC["motor"],
+    sections=_DOC["sections"],
+    load_torque=_DOC["load_torque"],
+    switching=_DOC["switching"],
+    points="Number of evenly spaced times, 2 to 100000 [-]",
+    mag_curve=_DOC["mag_curve"],
+    headers=_DOC["headers"],
+)
+def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=None, headers=None):
+    """Time history of a resistor start at evenly spaced times: time [s], current [A], speed [rpm], motor torque [N·m]."""
+    machine, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
+    history = start_history(result, machine, number("points", points))
+    rows = zip(history.t_s, history.i_a, history.n_rpm, history.torque_nm)
+    return spill(HISTORY_HEADER, rows, flag("headers", headers, True))
