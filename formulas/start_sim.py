@@ -89,6 +89,7 @@ __all__ = [
     "simulate_start",
     "History",
     "start_history",
+    "checked_sections",
     "notch_resistances_ohm",
     "settling_current_a",
 ]
@@ -252,6 +253,17 @@ class StartResult:
     def t_end_s(self) -> float:
         """End of the last computed segment. [s]"""
         return self.segments[-1].t1_s
+
+
+def checked_sections(sections_ohm) -> np.ndarray:
+    """Section resistances as an array, each above zero, at most :data:`MAX_NOTCHES`. [ohm]"""
+    sections = as_float_array("sections", sections_ohm, "ohm")
+    if sections.size > MAX_NOTCHES:
+        raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
+    if np.any(sections <= 0.0):
+        k = int(np.argmax(sections <= 0.0))
+        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be above zero")
+    return sections
 
 
 def notch_resistances_ohm(r_motor_ohm: float, sections_ohm) -> np.ndarray:
@@ -624,12 +636,7 @@ def simulate_start(
     See the module docstring.
     """
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
-    sections = as_float_array("sections", sections_ohm, "ohm")
-    if sections.size > MAX_NOTCHES:
-        raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
-    if np.any(sections <= 0.0):
-        k = int(np.argmax(sections <= 0.0))
-        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be above zero")
+    sections = checked_sections(sections_ohm)
     l_h = require_positive("l_circuit", l_circuit_h, "H")
     j = require_positive("inertia", inertia_kgm2, "kg·m²")
     r_motor = require_positive("r_motor", motor.r_ohm, "ohm")
