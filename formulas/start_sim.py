@@ -102,6 +102,8 @@ TIME_CAP_FACTOR = 60.0
 RAD_S_PER_RPM = 2.0 * math.pi / 60.0
 #: Most changes between standstill and motion on one notch before the start is refused.
 MAX_PHASES_PER_NOTCH = 8
+#: Exponents of the geometric sampling grid on which cut-out instants and peaks are bracketed.
+_GRID_STEPS = np.linspace(0.0, 1.0, 240)
 
 
 @dataclass(frozen=True)
@@ -416,6 +418,8 @@ class _LinearShunt:
     def _weights(self, t):
         """e^{st} cosh(mu t) and e^{st} sinh(mu t)/mu (or their oscillating forms)."""
         s, root = self.s, self.root
+        if isinstance(t, float):
+            return self._scalar_weights(t)
         if self.mu2 > 0.0:
             slow = np.exp((s + root) * t)
             fast = np.exp((s - root) * t)
@@ -427,6 +431,19 @@ class _LinearShunt:
         if root == 0.0:
             return envelope, envelope * t
         return envelope * np.cos(root * t), envelope * np.sin(root * t) / root
+
+    def _scalar_weights(self, t: float):
+        """:meth:`_weights` for one time, with the math module (root finding calls it often)."""
+        s, root = self.s, self.root
+        if self.mu2 > 0.0:
+            fast = math.exp((s - root) * t)
+            spread = 2.0 * root * t
+            difference = fast * math.expm1(spread) if spread < 1.0 else math.exp((s + root) * t) - fast
+            return fast + 0.5 * difference, difference / (2.0 * root)
+        envelope = math.exp(s * t)
+        if root == 0.0:
+            return envelope, envelope * t
+        return envelope * math.cos(root * t), envelope * math.sin(root * t) / root
 
     def state(self, t):
         """Current [A] and speed [rpm] at times ``t`` after the notch began."""
@@ -450,17 +467,21 @@ class _LinearShunt:
         ch, sh = self._weights(duration)
         phi = ch * np.eye(2) + sh * (self.a - self.s * np.eye(2))  # e^{A T}
         x_int = self.x_ss * duration + np.linalg.solve(self.a, (phi - np.eye(2)) @ self.d)
-        # W = int e^{A't} e1 e1' e^{At} dt solves A'W + WA = Phi' e1 e1' Phi - e1 e1' [3]
-        e1 = np.array([1.0, 0.0])
-        rhs = np.outer(phi[0], phi[0]) - np.outer(e1, e1)
-        eye = np.eye(2)
-        w = np.linalg.solve(np.kron(eye, self.a.T) + np.kron(self.a.T, eye), rhs.reshape(-1)).reshape(2, 2)
+        # W = int e^{A't} e1 e1' e^{At} dt solves A'W + WA = Phi' e1 e1' Phi - e1 e1' [3];
+        # W is symmetric, so three unknowns (w11, w12, w22).
+        (a, b), (c, d) = self.a
+        lyapunov = np.array([[2.0 * a, 2.0 * c, 0.0], [b, a + d, c], [0.0, 2.0 * b, 2.0 * d]])
+        q = np.array([phi[0, 0] ** 2 - 1.0, phi[0, 0] * phi[0, 1], phi[0, 1] ** 2])
+        w11, w12, w22 = np.linalg.solve(lyapunov, q)
         g_int = x_int[0] - self.x_ss[0] * duration
-        i2t = self.x_ss[0] ** 2 * duration + 2.0 * self.x_ss[0] * g_int + self.d @ w @ self.d
+        quadratic = w11 * self.d[0] ** 2 + 2.0 * w12 * self.d[0] * self.d[1] + w22 * self.d[1] ** 2
+        i2t = self.x_ss[0] ** 2 * duration + 2.0 * self.x_ss[0] * g_int + quadratic
         return float(x_int[0]), float(i2t), float(x_int[1])
 
     def grid(self, horizon):
-        return np.concatenate(([0.0], np.geomspace(self.t_fast * 1e-3, horizon, 240)))
+        """Times from 0 to ``horizon``, spaced geometrically from a thousandth of the fast time constant."""
+        first = min(self.t_fast, horizon) * 1e-3
+        return np.concatenate(([0.0], first * np.exp(_GRID_STEPS * math.log(horizon / first))))
 
     def peak(self, times, currents):
         """Time [s] and value [A] of the highest current on the sampled stretch, refined at the zero of di/dt."""
