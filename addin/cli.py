@@ -10,11 +10,11 @@ from __future__ import annotations
 import argparse
 import sys
 
-from . import CAUTION, demo
+from . import CAUTION, demo, diagram
 
 __all__ = ["main"]
 
-SUBCOMMANDS = (demo,)
+SUBCOMMANDS = (demo, diagram)
 
 
 def main(argv=None) -> int:

@@ -23,14 +23,16 @@ from __future__ import annotations
 
 from formulas.dc_motor import SeriesMotor, ShuntMotor
 from formulas.errors import InputError
+from formulas.resistors import ALLOYS, cold_hot_start, rise_verdict, section_duty
 from formulas.start_sim import simulate_start, start_history
+from formulas.worst_case import sweep_corners
 
 from .cells import (
     cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,
 )
 from .starters import MOTOR_KINDS, _compound_motor, _series_curve
 
-__all__ = ["NW_START_SIM", "NW_START_HISTORY"]
+__all__ = ["NW_START_SIM", "NW_START_HISTORY", "NW_SECTION_HEATING", "NW_WORST_CASE"]
 
 MOTOR_NAMES = (
     "kind", "v_supply", "r_motor", "l_circuit", "inertia", "k_phi", "mag_speed", "brush_drop", "shunt_at", "series_turns",
@@ -48,6 +50,9 @@ UNITS = {"v_supply": "V", "r_motor": "ohm", "l_circuit": "H", "inertia": "kg·m�
 START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "cut-out current [A]",
                 "speed at cut-out [rpm]", "energy in starting resistance [J]"]
 HISTORY_HEADER = ["time [s]", "current [A]", "speed [rpm]", "motor torque [N·m]"]
+HEATING_HEADER = ["section", "R cold [ohm]", "R hot [ohm]", "energy per start [J]", "r.m.s. current [A]",
+                  "mean power [W]", "rise per start [K]", "peak cold [A]", "peak hot [A]", "verdict"]
+WORST_HEADER = ["figure", "value", "supply [V]", "tolerance [-]", "grid temperature [°C]", "notch"]
 
 _DOC = {
     "motor": "Two columns of name/value pairs: kind, v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...",
@@ -56,6 +61,8 @@ _DOC = {
     "switching": "Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
     "mag_curve": "Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",
+    "alloy": "Grid alloy [-]: " + ", ".join(ALLOYS),
+    "ambient": "Optional temperature of the cold grid [°C]; blank: 20 °C",
 }
 
 
@@ -89,22 +96,26 @@ def _missing(key, kind=None) -> InputError:
     return InputError(f"motor needs a row named {key}{unit}{for_kind}")
 
 
-def start_from_cells(motor, sections, load_torque, switching, mag_curve):
-    """Convert the cells of a start and simulate it; returns (machine, result)."""
+def start_arguments(motor, sections, load_torque, switching, mag_curve) -> dict:
+    """The keyword arguments of a start, converted from its cells."""
     machine, v_supply, drop, l_h, j = motor_from_cells(motor, mag_curve)
     i_cut, dwells = number_or_column("switching", switching, "A or s")
-    result = simulate_start(
-        machine,
-        v_supply,
-        column("sections", sections, "ohm"),
-        l_h,
-        j,
-        number_or_table("load_torque", load_torque, ("speed", "torque"), ("rpm", "N·m")),
+    return dict(
+        motor=machine,
+        v_supply_v=v_supply,
+        l_circuit_h=l_h,
+        inertia_kgm2=j,
+        load=number_or_table("load_torque", load_torque, ("speed", "torque"), ("rpm", "N·m")),
         i_cut_a=i_cut,
         dwell_s=dwells,
         brush_drop_v=drop,
-    )
-    return machine, result
+    ), column("sections", sections, "ohm")
+
+
+def start_from_cells(motor, sections, load_torque, switching, mag_curve):
+    """Convert the cells of a start and simulate it; returns (machine, result)."""
+    arguments, resistances = start_arguments(motor, sections, load_torque, switching, mag_curve)
+    return arguments["motor"], simulate_start(sections_ohm=resistances, **arguments)
 
 
 @cell_function(
@@ -148,3 +159,92 @@ def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=
     history = start_history(result, machine, number("points", points))
     rows = zip(history.t_s, history.i_a, history.n_rpm, history.torque_nm)
     return spill(HISTORY_HEADER, rows, flag("headers", headers, True))
+
+
+@cell_function(
+    tables=("motor", "sections", "load_torque", "switching", "mass", "mag_curve"),
+    motor=_DOC["motor"],
+    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
+    load_torque=_DOC["load_torque"],
+    switching=_DOC["switching"],
+    alloy=_DOC["alloy"],
+    mass="Mass of resistive element per section: one value for all, or a column [kg]",
+    starts_per_hour="Starts per hour, for r.m.s. current and mean power [1/h]",
+    ambient=_DOC["ambient"],
+    hot="Optional hot-grid temperature [°C]; blank: ambient plus each section's rise in one start",
+    mag_curve=_DOC["mag_curve"],
+    headers=_DOC["headers"],
+)
+def NW_SECTION_HEATING(
+    motor, sections, load_torque, switching, alloy, mass, starts_per_hour, ambient=None, hot=None, mag_curve=None,
+    headers=None,
+):
+    """Per section: energy per start [J], rms current [A], mean power [W], adiabatic rise [K], and peaks [A] cold and hot."""
+    arguments, resistances = start_arguments(motor, sections, load_torque, switching, mag_curve)
+    one_mass, masses = number_or_column("mass", mass, "kg")
+    both = cold_hot_start(
+        sections_20c_ohm=resistances,
+        alloy=option("alloy", alloy, tuple(ALLOYS)),
+        mass_kg=one_mass if masses is None else masses,
+        ambient_c=optional_number("ambient", ambient, 20.0, "°C"),
+        hot_c=optional_number("hot", hot, None, "°C"),
+        **arguments,
+    )
+    cold = both.cold
+    duty = section_duty(cold.r_section_ohm, cold.i2t_a2s, number("starts_per_hour", starts_per_hour, "1/h"), cold.t_accel_s)
+    verdicts = rise_verdict(both.rise_k)
+    rows = zip(range(1, cold.notches + 1), both.r_cold_ohm, both.r_hot_ohm, duty.energy_j, duty.i_rms_a, duty.power_w,
+               both.rise_k, cold.i_peak_a, both.hot.i_peak_a, verdicts)
+    return spill(HEATING_HEADER, rows, flag("headers", headers, True))
+
+
+@cell_function(
+    tables=("motor", "sections", "load_torque", "switching", "points", "mag_curve"),
+    motor=_DOC["motor"],
+    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
+    load_torque=_DOC["load_torque"],
+    switching=_DOC["switching"],
+    v_low="Low end of the supply band as a fraction of v_supply, e.g. -0.1 [-]",
+    v_high="High end of the supply band as a fraction of v_supply, e.g. 0.1 [-]",
+    tolerance="Resistor tolerance, swept from -tolerance to +tolerance, e.g. 0.05 [-]",
+    alloy=_DOC["alloy"],
+    hot="Hottest grid temperature [°C]",
+    points="Values per axis: one number for all, or three (supply, tolerance, temperature) [-]",
+    ambient=_DOC["ambient"],
+    mag_curve=_DOC["mag_curve"],
+    headers=_DOC["headers"],
+)
+def NW_WORST_CASE(
+    motor, sections, load_torque, switching, v_low, v_high, tolerance, alloy, hot, points, ambient=None,
+    mag_curve=None, headers=None,
+):
+    """Worst corner of supply band, resistor tolerance and grid temperature: the highest peak current [A] and the smallest cut-out margin [-]."""
+    arguments, resistances = start_arguments(motor, sections, load_torque, switching, mag_curve)
+    single, several = number_or_column("points", points, "-")
+    counts = (single,) * 3 if several is None else tuple(several)
+    sweep = sweep_corners(
+        sections_20c_ohm=resistances,
+        v_low=number("v_low", v_low),
+        v_high=number("v_high", v_high),
+        tolerance=number("tolerance", tolerance),
+        alloy=option("alloy", alloy, tuple(ALLOYS)),
+        ambient_c=optional_number("ambient", ambient, 20.0, "°C"),
+        hot_c=number("hot", hot, "°C"),
+        points=counts,
+        **arguments,
+    )
+    nan = float("nan")
+
+    def corner(label, value, index, notch):
+        if index < 0:
+            return [label, "no corner runs: every corner stalls", nan, nan, nan, nan]
+        return [label, value, sweep.v_supply_v[index], sweep.tolerance[index], sweep.temperature_c[index], notch]
+
+    rows = [
+        corner("highest peak current [A]", sweep.i_peak_a[sweep.worst_peak], sweep.worst_peak, nan),
+        corner("smallest cut-out margin [-]", sweep.margin[sweep.worst_margin], sweep.worst_margin,
+               sweep.margin_notch[sweep.worst_margin]),
+        ["corners [-]", sweep.v_supply_v.size, nan, nan, nan, nan],
+        ["corners in which a notch stalls [-]", sweep.stalls, nan, nan, nan, nan],
+    ]
+    return spill(WORST_HEADER, rows, flag("headers", headers, True))

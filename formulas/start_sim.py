@@ -547,6 +547,22 @@ def _integrated_running_phase(notch, motor, v_eff, r, l_h, j, load, i_cut, t_lef
         t_load = float(load.at(n))
         return [(v_eff - r * i - flux * n) / l_h, c1 * (c1 * flux * i - t_load) / j, i, i * i, t_load * n * RAD_S_PER_RPM]
 
+    def jacobian(t, y):
+        # Given, because the quadrature rows never feed back and scipy's difference Jacobian
+        # then grows its step without bound. Slopes of flux and load by backward differences.
+        i, n = y[0], y[1]
+        flux = float(k_phi(i))
+        step_i, step_n = 1e-6 * max(abs(i), 1.0), 1e-6 * max(abs(n), 1.0)
+        dflux = (flux - float(k_phi(max(i - step_i, 0.0)))) / (i - max(i - step_i, 0.0)) if i > 0.0 else 0.0
+        t_load = float(load.at(n))
+        dload = (t_load - float(load.at(n - step_n))) / step_n
+        jac = np.zeros((5, 5))
+        jac[0, 0], jac[0, 1] = -(r + dflux * n) / l_h, -flux / l_h
+        jac[1, 0], jac[1, 1] = c1 * c1 * (flux + dflux * i) / j, -c1 * dload / j
+        jac[2, 0], jac[3, 0] = 1.0, 2.0 * i
+        jac[4, 1] = RAD_S_PER_RPM * (t_load + n * dload)
+        return jac
+
     def to_rest(t, y):
         return y[1]
 
@@ -575,7 +591,7 @@ def _integrated_running_phase(notch, motor, v_eff, r, l_h, j, load, i_cut, t_lef
     scale = np.array([i_scale, max(abs(notch.n), 1.0), i_scale * span, i_scale * i_scale * span, 1.0])
     solution = solve_ivp(
         rhs, (0.0, span), [notch.i, notch.n, 0.0, 0.0, 0.0], method="Radau", rtol=rtol,
-        atol=rtol * 1e-3 * scale, events=events, dense_output=True,
+        atol=rtol * 1e-3 * scale, events=events, dense_output=True, jac=jacobian,
     )
     if solution.status < 0:
         raise DesignError(f"notch {notch.index}: the integrator failed ({solution.message})")
