@@ -63,7 +63,11 @@ _DOC = {
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",
     "alloy": "Grid alloy [-]: " + ", ".join(ALLOYS),
     "ambient": "Optional temperature of the cold grid [°C]; blank: 20 °C",
+    "sections_20c": "Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
 }
+#: Help for the four arguments that describe a start, shared by every function here.
+_START_DOCS = {name: _DOC[name] for name in ("motor", "sections", "load_torque", "switching")}
+_GRID_DOCS = {**_START_DOCS, "sections": _DOC["sections_20c"]}
 
 
 def motor_from_cells(motor, mag_curve):
@@ -120,10 +124,7 @@ def start_from_cells(motor, sections, load_torque, switching, mag_curve):
 
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
-    motor=_DOC["motor"],
-    sections=_DOC["sections"],
-    load_torque=_DOC["load_torque"],
-    switching=_DOC["switching"],
+    **_START_DOCS,
     mag_curve=_DOC["mag_curve"],
     headers=_DOC["headers"],
 )
@@ -145,10 +146,7 @@ def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, header
 
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
-    motor=_DOC["motor"],
-    sections=_DOC["sections"],
-    load_torque=_DOC["load_torque"],
-    switching=_DOC["switching"],
+    **_START_DOCS,
     points="Number of evenly spaced times, 2 to 100000 [-]",
     mag_curve=_DOC["mag_curve"],
     headers=_DOC["headers"],
@@ -163,10 +161,7 @@ def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=
 
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mass", "mag_curve"),
-    motor=_DOC["motor"],
-    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
-    load_torque=_DOC["load_torque"],
-    switching=_DOC["switching"],
+    **_GRID_DOCS,
     alloy=_DOC["alloy"],
     mass="Mass of resistive element per section: one value for all, or a column [kg]",
     starts_per_hour="Starts per hour, for r.m.s. current and mean power [1/h]",
@@ -200,10 +195,7 @@ def NW_SECTION_HEATING(
 
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "points", "mag_curve"),
-    motor=_DOC["motor"],
-    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
-    load_torque=_DOC["load_torque"],
-    switching=_DOC["switching"],
+    **_GRID_DOCS,
     v_low="Low end of the supply band as a fraction of v_supply, e.g. -0.1 [-]",
     v_high="High end of the supply band as a fraction of v_supply, e.g. 0.1 [-]",
     tolerance="Resistor tolerance, swept from -tolerance to +tolerance, e.g. 0.05 [-]",

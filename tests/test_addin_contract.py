@@ -153,6 +153,14 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_GRADE_SERIES", 4, (("I", "E"), (0.0, 10.0), (100.0, 5.0)), "EMF must not fall"),
         ("NW_CHECK_SECTIONS", 0, "wound rotor", "kind ('wound rotor') must be one of: shunt, series, compound"),
         ("NW_SERIES_SPEED", 2, 5000.0, "above the stall current"),
+        ("NW_START_SIM", 0, (("kind", "shunt"), ("speed", 1.0)), "must be one of: kind, v_supply, r_motor"),
+        ("NW_START_SIM", 0, SHUNT_MOTOR[:3] + (("l_circuit", 0.0),) + SHUNT_MOTOR[4:], "l_circuit (0 H) must be above zero"),
+        ("NW_START_SIM", 0, SHUNT_MOTOR[:4] + (("inertia", 0.0),) + SHUNT_MOTOR[5:], "inertia (0 kg·m²) must be above zero"),
+        ("NW_START_SIM", 2, 1e6, "the load is above the motor's capability"),
+        ("NW_START_SIM", 3, 30.0, "notch 1 stalls"),
+        ("NW_START_SIM", 3, ((0.5,), (0.4,)), "dwell has 2 entries but sections has 3"),
+        ("NW_WORST_CASE", 6, 0.9, "tolerance (0.9) must be at most 0.5"),
+        ("NW_SECTION_HEATING", 4, "brass", "alloy ('brass') must be one of: AISI 304, NiCr 80/20, CuNi 44"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
