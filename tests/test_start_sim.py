@@ -270,3 +270,16 @@ def test_any_shunt_start_balances_or_gives_a_message(l_h, j, t_load, i_cut):
         return
     assert np.all(np.abs(_balance_residuals(result, l_h, j)) < 1e-7)
     assert np.all(result.i_cut_a == pytest.approx(i_cut))
+
+
+def test_a_stall_names_its_notch_and_the_dynamics_confirm_it():
+    # Notch 3 of this load stiffening with speed cannot bring the current down to 170 A: run the same
+    # start on timers with a long third dwell and the current settles above 170 A (a second method).
+    table = [[0.0, 150.0], [600.0, 450.0], [1200.0, 900.0]]
+    arguments = dict(motor=SHUNT, v_supply_v=V, sections_ohm=[1.0, 0.5, 0.25], l_circuit_h=0.01, inertia_kgm2=5.0,
+                     load=table, brush_drop_v=VB)
+    with pytest.raises(DesignError, match="notch 3 stalls"):
+        simulate_start(**arguments, i_cut_a=170.0)
+    timed = simulate_start(**arguments, dwell_s=[1.0, 1.0, 30.0])
+    assert timed.i_cut_a[2] > 170.0
+    assert simulate_start(**arguments, i_cut_a=190.0).i_cut_a == pytest.approx(190.0)
