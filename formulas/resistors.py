@@ -7,7 +7,8 @@ notches 1 to :math:`s`, so per start it absorbs
 
 At :math:`z` starts per hour the r.m.s. current and mean power of the section
 are :math:`I_{rms} = \sqrt{(z/3600)\sum_{k\le s}\int i^2 dt}` and
-:math:`P = (z/3600)\,E_s` [1]_. One start is short against the cooling time of
+:math:`P = (z/3600)\,E_s` (the definition of the r.m.s. value over the hour).
+The temperature-rise limits used for the check are those recalled from [1]_. One start is short against the cooling time of
 a grid, so its temperature rise is taken as adiabatic, :math:`m c\,\Delta\theta = E_s`
 [2]_, and the resistance follows the alloy's linear law
 :math:`R(\theta) = R_{20}\,[1 + \alpha(\theta - 20\,^{\circ}C)]` [2]_. The resistance
@@ -17,8 +18,8 @@ left out, which for the low-coefficient alloys is well under 1 %).
 References
 ----------
 .. [1] IEEE Std 32-1972, *IEEE Standard Requirements, Terminology, and Test
-   Procedure for Neutral Grounding Devices*, sec. on resistors (time ratings,
-   r.m.s. current of a duty). Clause numbers from memory.
+   Procedure for Neutral Grounding Devices*, section on resistors, table of
+   allowable temperature rises for time ratings. Figures and clause from memory.
 .. [2] ASM International, *ASM Handbook*, vol. 2, *Properties and Selection:
    Nonferrous Alloys and Special-Purpose Materials*, 10th ed., 1990, section on
    electrical resistance alloys; and vol. 1 for AISI 304. Figures from memory.
@@ -103,7 +104,9 @@ ALLOYS = {
 }
 
 #: Temperature-rise limits of power resistors after IEEE Std 32-1972 (neutral grounding resistors):
-#: short-time rating 760 K, extended-time 610 K, continuous 385 K. Recalled, not verified: from memory.
+#: short-time rating (10 s and 60 s) 760 K, extended-time 610 K, continuous 385 K. Recalled; a resistor
+#: maker's published summary of IEEE Std 32-1972 gives the same three figures, the standard itself was
+#: not checked: from memory.
 #: Used as defaults for a check; a starter resistor's own standard or maker's rating prevails.
 TEMPERATURE_RISE_LIMITS_K = {"short time": 760.0, "extended": 610.0, "continuous": 385.0}
 
@@ -178,7 +181,7 @@ def section_duty(r_section_ohm, i2t_a2s, starts_per_hour: float, start_time_s: f
         )
     energy = section_energy_j(r_section_ohm, i2t_a2s)
     i2t_in_circuit = np.cumsum(as_float_array("i2t", i2t_a2s, "A²·s"))
-    return SectionDuty(energy, np.sqrt(z / 3600.0 * i2t_in_circuit), z / 3600.0 * energy)  # Eq. (2) of module
+    return SectionDuty(energy, np.sqrt(z / 3600.0 * i2t_in_circuit), z / 3600.0 * energy)  # r.m.s. over the hour
 
 
 def _alloy(alloy) -> Alloy:
