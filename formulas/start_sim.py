@@ -627,7 +627,7 @@ def simulate_start(
     dwell_s=None,
     brush_drop_v: float = 0.0,
     method: str = "auto",
-    rtol: float = 1e-8,
+    rtol: float = 1e-7,
 ) -> StartResult:
     r"""Simulate a resistor start in time, notch by notch.
 
