@@ -283,3 +283,15 @@ def test_a_stall_names_its_notch_and_the_dynamics_confirm_it():
     timed = simulate_start(**arguments, dwell_s=[1.0, 1.0, 30.0])
     assert timed.i_cut_a[2] > 170.0
     assert simulate_start(**arguments, i_cut_a=190.0).i_cut_a == pytest.approx(190.0)
+
+
+def test_compound_start_balances_and_tends_to_the_grading_table():
+    from formulas.dc_motor import CompoundMotor
+
+    curve = magnetization_curve([0, 1000, 3000, 6000, 9000], [0, 100, 200, 260, 290], 800.0, "ampere-turns")
+    motor = CompoundMotor(0.08, curve, 1500.0, 10.0)
+    grading = grade_uniform(motor, V, 400.0, 250.0, None, VB)
+    result = simulate_start(motor, V, grading.r_section_ohm, 1e-6, 5.0, 200.0, i_cut_a=grading.i_switch_a[0],
+                            brush_drop_v=VB, rtol=1e-10)
+    assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)  # the grading limit, as for the series motor
+    assert np.all(np.abs(_balance_residuals(result, 1e-6, 5.0)) < 1e-7)
