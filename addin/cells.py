@@ -39,6 +39,9 @@ __all__ = [
     "option",
     "table",
     "column",
+    "number_or_column",
+    "number_or_table",
+    "name_values",
     "spill",
     "call_with_cells",
 ]
@@ -210,6 +213,59 @@ def column(name: str, value, unit: str = "") -> np.ndarray:
     """Numbers from a single row or column range (or one cell); trailing blanks dropped."""
     cells = _filled_cells(name, value, unit)
     return np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+
+
+def _single_cell(value):
+    """The one cell of a one-cell range (or a bare value), else None."""
+    rows = _rows(value)
+    filled = [c for row in rows for c in row if not _is_blank(c)]
+    return filled[0] if len(filled) == 1 and not isinstance(filled[0], str) else None
+
+
+def number_or_column(name: str, value, unit: str):
+    """``(number, None)`` for one numeric cell, or ``(None, numbers)`` for a column.
+
+    A column may start with a text label (``dwell [s]``), which is how a
+    one-entry column is told from a single number.
+    """
+    single = _single_cell(value)
+    if single is not None:
+        return number(name, single, unit), None
+    cells = _filled_cells(name, value, unit)
+    if isinstance(cells[0], str):
+        cells = cells[1:]
+    if not cells:
+        raise InputTypeError(f"{name} has a label but no numbers in {unit}")
+    return None, np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+
+
+def number_or_table(name: str, value, columns: tuple, units: tuple):
+    """One numeric cell as a float, or a numeric table (see :func:`table`) of at least 2 rows."""
+    single = _single_cell(value)
+    if single is not None:
+        return number(name, single, units[-1])
+    return table(name, value, columns, units, min_rows=2)
+
+
+def name_values(name: str, value, names) -> dict:
+    """A two-column range of name/value pairs as a dict, names matched case-insensitively.
+
+    Blank rows are skipped; an unknown or repeated name fails with a message
+    listing the valid names.
+    """
+    pairs = {}
+    for r, row in enumerate(_rows(value)):
+        if all(map(_is_blank, row)):
+            continue
+        if len(row) < 2:
+            raise InputError(f"{name} needs two columns, name and value; row {r + 1} has one")
+        key = choose(f"{name} row {r + 1} name", row[0], names)
+        if key in pairs:
+            raise InputError(f"{name} names {key} twice (rows with the same name)")
+        pairs[key] = row[1]
+    if not pairs:
+        raise InputTypeError(f"{name} is empty; name/value rows are needed: {', '.join(names)}")
+    return pairs
 
 
 def _filled_cells(name: str, value, unit: str) -> list:

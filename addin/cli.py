@@ -10,11 +10,11 @@ from __future__ import annotations
 import argparse
 import sys
 
-from . import CAUTION, audit, demo
+from . import CAUTION, audit, demo, diagram
 
 __all__ = ["main"]
 
-SUBCOMMANDS = (demo, audit)
+SUBCOMMANDS = (demo, diagram, audit)
 
 
 def main(argv=None) -> int:

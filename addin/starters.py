@@ -59,9 +59,10 @@ def _series_curve(mag_curve, mag_speed=None, optional=False):
     return magnetization_curve(rows[:, 0], rows[:, 1], speed)
 
 
-def _compound_motor(r_motor, mag_curve, shunt_at, series_turns):
+def _compound_motor(r_motor, mag_curve, shunt_at, series_turns, mag_speed=None):
     rows = table("mag_curve", mag_curve, ("ampere-turns", "EMF"), ("A", "V"), min_rows=2)
-    curve = magnetization_curve(rows[:, 0], rows[:, 1], excitation_name="ampere-turns")
+    speed = None if mag_speed is None else number("mag_speed", mag_speed, "rpm")
+    curve = magnetization_curve(rows[:, 0], rows[:, 1], speed, excitation_name="ampere-turns")
     return CompoundMotor(
         number("r_motor", r_motor, "ohm"),
         curve,

@@ -4,9 +4,11 @@ The functions live in one module per subject; this module gathers them so that
 xlwings' "Import Functions" finds them all in one place.
 """
 
+from .dynamics import *  # noqa: F401,F403
+from .dynamics import __all__ as _dynamics
 from .protection import *  # noqa: F401,F403
 from .protection import __all__ as _protection
 from .starters import *  # noqa: F401,F403
 from .starters import __all__ as _starters
 
-__all__ = [*_starters, *_protection]
+__all__ = [*_starters, *_protection, *_dynamics]

@@ -444,7 +444,7 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
             f"{quantity(i_stall, 'A')} (supply less brush drop over circuit resistance)"
         )
     k_phi = np.asarray(motor.k_phi(i), dtype=float)
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore"):  # a vanishing flux means a runaway: inf is the answer
         n = np.where(k_phi > 0.0, (v - i * r) / np.where(k_phi > 0.0, k_phi, 1.0), np.inf)  # Eq. 7.8 of [1]
     return n[()]
 

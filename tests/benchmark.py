@@ -19,6 +19,8 @@ from formulas.grading import check_sections, grade_uniform
 from formulas.protection import ride_through
 from formulas.relays import CURVES, operate_time_s
 from formulas.thermal import thermal_element
+from formulas.start_sim import simulate_start
+from formulas.worst_case import sweep_corners
 
 CURVE_ROWS = [[0.0, 6.0], [40.0, 62.0], [80.0, 112.0], [120.0, 150.0], [160.0, 178.0], [220.0, 205.0],
               [300.0, 228.0], [400.0, 246.0], [500.0, 258.0]]
@@ -95,6 +97,40 @@ JOBS = {
 }
 
 
+#: The start in time: a 5-notch shunt start with inductance (closed form), its reference, and a sweep.
+START_SECTIONS = grade_uniform(SHUNT, 460.0, 380.0, 210.0, None, 2.0).r_section_ohm
+START = dict(motor=SHUNT, v_supply_v=460.0, sections_ohm=START_SECTIONS, l_circuit_h=0.006, inertia_kgm2=14.0,
+             load=500.0, i_cut_a=215.0, brush_drop_v=2.0)
+SWEEP_POINTS = (10, 10, 10)
+
+
+def start_section() -> None:
+    """Time the 5-notch start against a tight general solve (Radau, rtol 1e-10) and a 1,000-corner sweep."""
+    fast = simulate_start(**START)
+    reference = simulate_start(**START, method="integrate", rtol=1e-10)
+    peak_error = np.max(np.abs(fast.i_peak_a / reference.i_peak_a - 1.0))
+    dwell_error = np.max(np.abs(fast.dwell_s / reference.dwell_s - 1.0))
+    fast_ms = median_ms(lambda: simulate_start(**START))
+    reference_ms = median_ms(lambda: simulate_start(**START, method="integrate", rtol=1e-10), repeat=3)
+    general_ms = median_ms(lambda: simulate_start(**START, method="integrate"), repeat=3)
+    print()
+    print(f"5-notch shunt start, closed form: {fast_ms:.3f} ms median (target 10 ms)")
+    print(f"  tight general solve (Radau rtol 1e-10): {reference_ms:.1f} ms, ratio {reference_ms / fast_ms:.0f}x;"
+          f" default general solve (rtol 1e-7): {general_ms:.1f} ms")
+    print(f"  largest difference from the tight solve: peak current {100 * peak_error:.2e} %,"
+          f" dwell {100 * dwell_error:.2e} % (target 0.5 %)")
+    motor = series_motor()
+    series = dict(motor=motor, v_supply_v=230.0, sections_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
+                  l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0)
+    series_error = np.max(np.abs(simulate_start(**series).i_peak_a / simulate_start(**series, rtol=1e-10).i_peak_a - 1.0))
+    print(f"4-notch series start (magnetization curve, Radau rtol 1e-7): {median_ms(lambda: simulate_start(**series), repeat=3):.1f} ms,"
+          f" peak within {100 * series_error:.1e} % of rtol 1e-10")
+    arguments = {k: v for k, v in START.items() if k != "sections_ohm"}
+    sweep_s = median_ms(lambda: sweep_corners(sections_20c_ohm=START_SECTIONS, hot_c=300.0, points=SWEEP_POINTS,
+                                              **arguments), repeat=3) / 1e3
+    print(f"worst-case sweep, {np.prod(SWEEP_POINTS)} corners: {sweep_s:.2f} s median (target 2 s)")
+
+
 def median_ms(call, repeat: int = 7) -> float:
     """Median over ``repeat`` runs of the time per call, in ms."""
     runs = timeit.Timer(call).autorange()[0]
@@ -111,6 +147,7 @@ def main() -> None:
         job = make()
         seconds = statistics.median(timeit.repeat(job, number=1, repeat=5))
         print(f"{name:32s} {seconds:9.3f} {target:10.2f}")
+    start_section()
 
 
 if __name__ == "__main__":

@@ -29,6 +29,11 @@ M = EXCEL_MISSING
 #: A resistance start as (time s, current A) rows: four notches between 420 A and 300 A, then 120 A running.
 START = (("time s", "current A"), (0.0, 420.0), (1.5, 300.0), (1.5, 420.0), (3.0, 300.0), (3.0, 420.0), (4.5, 300.0),
          (4.5, 420.0), (6.0, 300.0), (6.0, 120.0), (10.0, 120.0))
+SHUNT_MOTOR = (("kind", "shunt"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_circuit", 0.005), ("inertia", 4.0),
+               ("k_phi", 0.2), ("brush_drop", 2.0))
+SERIES_MOTOR = (("Kind", "Series"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_circuit", 0.004),
+                ("inertia", 3.0), ("mag_speed", 800.0))
+SECTIONS = ((0.5,), (0.25,), (0.12,))
 
 #: Valid raw arguments, as Excel passes them, for every spreadsheet function.
 EXAMPLES = {
@@ -52,6 +57,10 @@ EXAMPLES = {
     "NW_RIDE_THROUGH": (START, "IEC VI", 140.0, 1.2, 650.0, M, 120.0, 1.05, 900.0, M, True),
     "NW_PROPOSE_SETTINGS": (START, "IEC VI", 120.0, 420.0, 30.0, M, M, M, M, M, M),
     "NW_COORDINATE": ("IEC SI", 300.0, "IEC VI", 138.0, 1.2, 4000.0, M, 650.0, 0.05, M),
+    "NW_START_SIM": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, M, M),
+    "NW_SECTION_HEATING": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, "AISI 304", 3.0, 20.0, M, M, M, M),
+    "NW_WORST_CASE": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, -0.1, 0.1, 0.05, "NiCr 80/20", 300.0, 2.0, M, M, M),
+    "NW_START_HISTORY": (SERIES_MOTOR, SECTIONS, ((0.0, 200.0), (600.0, 260.0)), ((0.4,), (0.3,), (0.2,)), 50.0, SERIES_CURVE, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
@@ -169,6 +178,14 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_RIDE_THROUGH", 1, "IEC Z", "curve ('IEC Z') must be one of"),
         ("NW_PROPOSE_SETTINGS", 3, 100.0, "i_stall (100 A) is not above the overload pickup (138 A)"),
         ("NW_COORDINATE", 0, "ansi", "curve_up ('ansi') must be one of"),
+        ("NW_START_SIM", 0, (("kind", "shunt"), ("speed", 1.0)), "must be one of: kind, v_supply, r_motor"),
+        ("NW_START_SIM", 0, SHUNT_MOTOR[:3] + (("l_circuit", 0.0),) + SHUNT_MOTOR[4:], "l_circuit (0 H) must be above zero"),
+        ("NW_START_SIM", 0, SHUNT_MOTOR[:4] + (("inertia", 0.0),) + SHUNT_MOTOR[5:], "inertia (0 kg·m²) must be above zero"),
+        ("NW_START_SIM", 2, 1e6, "the load is above the motor's capability"),
+        ("NW_START_SIM", 3, 30.0, "notch 1 stalls"),
+        ("NW_START_SIM", 3, ((0.5,), (0.4,)), "dwell has 2 entries but sections has 3"),
+        ("NW_WORST_CASE", 6, 0.9, "tolerance (0.9) must be at most 0.5"),
+        ("NW_SECTION_HEATING", 4, "brass", "alloy ('brass') must be one of: AISI 304, NiCr 80/20, CuNi 44"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):

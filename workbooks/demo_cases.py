@@ -38,6 +38,11 @@ HOIST = DemoCase(
         "brush_drop": 2.0,
         "mag_speed": 700.0,
         "n_max": 2100.0,
+        # dynamic data for the start in time (invented): circuit inductance, inertia on the motor shaft,
+        # and the hoisting torque of the rated hook load referred to the motor shaft
+        "l_circuit": 0.004,
+        "inertia": 6.5,
+        "load_torque": 520.0,
         # current [A], EMF [V] measured at mag_speed
         "mag_curve": [
             [0.0, 6.0],
@@ -72,6 +77,11 @@ CONVEYOR = DemoCase(
         "notches": 6.0,
         "i_rated": 300.0,
         "n_rated": 1150.0,
+        # dynamic data for the start in time (invented): belt breakaway at rest, easing once moving,
+        # then rising with speed; speed [rpm], torque [N·m] on the motor shaft
+        "l_circuit": 0.006,
+        "inertia": 14.0,
+        "load_torque": [[0.0, 560.0], [150.0, 430.0], [1200.0, 500.0]],
     },
 )
 

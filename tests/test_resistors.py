@@ -1,0 +1,116 @@
+"""Checks of section energy, duty, heating and resistance at temperature."""
+
+from __future__ import annotations
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from formulas.dc_motor import ShuntMotor
+from formulas.errors import DesignError, InputError
+from formulas.resistors import (
+    ALLOYS,
+    TEMPERATURE_RISE_LIMITS_K,
+    adiabatic_rise_k,
+    cold_hot_start,
+    resistance_at_c,
+    rise_verdict,
+    section_duty,
+    section_energy_j,
+)
+from formulas.start_sim import simulate_start, start_history
+
+MOTOR = ShuntMotor(0.1, 0.4)
+SECTIONS = [1.0, 0.5, 0.25]
+
+
+def _start():
+    return simulate_start(MOTOR, 440.0, SECTIONS, 0.01, 5.0, 300.0, i_cut_a=200.0, brush_drop_v=2.0)
+
+
+def test_alloy_table_holds_the_figures_named_in_the_brief_with_sources():
+    # Figures as recalled (ASM Handbook vols. 1 and 2, 10th ed., 1990): from memory, not verified.
+    assert ALLOYS["AISI 304"].resistivity_ohm_m == pytest.approx(72e-8)
+    assert ALLOYS["AISI 304"].specific_heat_j_per_kg_k == pytest.approx(500.0)
+    assert ALLOYS["NiCr 80/20"].resistivity_ohm_m == pytest.approx(108e-8)
+    assert ALLOYS["CuNi 44"].resistivity_ohm_m == pytest.approx(49e-8)
+    assert all("from memory" in alloy.source for alloy in ALLOYS.values())
+    # IEEE Std 32-1972 temperature-rise limits as recalled: from memory.
+    assert TEMPERATURE_RISE_LIMITS_K == {"short time": 760.0, "extended": 610.0, "continuous": 385.0}
+
+
+def test_section_energy_against_a_trapezoid_integral_of_the_history():
+    # E_s = R_s * integral of i^2 while the section is in circuit: an independent quadrature of the history.
+    result = _start()
+    history = start_history(result, MOTOR, 100_000)
+    cut_times = result.t_start_s + result.dwell_s
+    expected = []
+    for s, r in enumerate(SECTIONS):
+        inside = history.t_s <= cut_times[s]
+        expected.append(r * np.trapezoid(history.i_a[inside] ** 2, history.t_s[inside]))
+    assert np.allclose(section_energy_j(result.r_section_ohm, result.i2t_a2s), expected, rtol=2e-3)
+    assert np.sum(result.energy_notch_j) == pytest.approx(np.sum(expected), rel=2e-3)
+
+
+def test_duty_rms_and_power_follow_from_energy_and_start_rate():
+    # I_rms^2 R = P and P = E z / 3600 (definition of r.m.s. over the hour; IEEE Std 32-1972, from memory).
+    result = _start()
+    duty = section_duty(result.r_section_ohm, result.i2t_a2s, 30.0, result.t_accel_s)
+    assert np.allclose(duty.power_w, duty.energy_j * 30.0 / 3600.0)
+    assert np.allclose(duty.i_rms_a**2 * np.array(SECTIONS), duty.power_w)
+
+
+def test_adiabatic_rise_against_m_c_dt():
+    # m c dT = E (first law, closed body without losses): 50 kJ into 2 kg of c = 500 J/(kg K) gives 50 K.
+    assert adiabatic_rise_k(50_000.0, 2.0, "AISI 304") == pytest.approx(50.0)
+    assert np.allclose(adiabatic_rise_k([900.0, 1800.0], [2.0, 2.0], ALLOYS["NiCr 80/20"]), [1.0, 2.0])
+
+
+def test_resistance_at_temperature_against_the_linear_alloy_law():
+    # R = R20 (1 + alpha (theta - 20)) (ASM Handbook vol. 2, 10th ed., resistance alloys; from memory)
+    alpha = ALLOYS["AISI 304"].alpha_per_k
+    assert resistance_at_c(2.0, 420.0, "aisi 304") == pytest.approx(2.0 * (1.0 + alpha * 400.0))
+    assert resistance_at_c(2.0, 20.0, "CuNi 44") == pytest.approx(2.0)
+
+
+def test_a_hot_grid_lowers_the_first_peak():
+    both = cold_hot_start(MOTOR, 440.0, SECTIONS, 0.01, 5.0, 300.0, "AISI 304", 2.0, 20.0, 150.0, 180.0, None, 2.0)
+    assert both.hot.i_peak_a[0] < both.cold.i_peak_a[0]
+    assert np.all(both.r_hot_ohm > both.r_cold_ohm)
+    # the default hot temperature is ambient plus the cold start's own adiabatic rise
+    again = cold_hot_start(MOTOR, 440.0, SECTIONS, 0.01, 5.0, 300.0, "AISI 304", 2.0, 20.0, None, 200.0, None, 2.0)
+    expected = adiabatic_rise_k(section_energy_j(again.cold.r_section_ohm, again.cold.i2t_a2s), 2.0, "AISI 304")
+    assert np.allclose(again.hot_c, 20.0 + expected)
+
+
+def test_rise_verdict_names_the_limit():
+    assert rise_verdict([100.0, 800.0]) == ("ok", "rise over the short time limit (760 K, IEEE Std 32, from memory)")
+
+
+@pytest.mark.parametrize(
+    "call, words",
+    [
+        (lambda: adiabatic_rise_k(10.0, 0.0, "AISI 304"), "mass (0 kg) must be above zero"),
+        (lambda: adiabatic_rise_k(-1.0, 1.0, "AISI 304"), "energy (-1 J) must not be negative"),
+        (lambda: adiabatic_rise_k(1.0, 1.0, "brass"), "alloy ('brass') must be one of"),
+        (lambda: resistance_at_c(1.0, -100.0, "AISI 304"), "must be -60 °C or above"),
+        (lambda: section_duty([1.0], [10.0], 400.0, 10.0), "do not fit in an hour"),
+        (lambda: section_energy_j([1.0, 2.0], [3.0]), "r_section has 2 entries but i2t has 1"),
+        (lambda: cold_hot_start(MOTOR, 440.0, SECTIONS, 0.01, 5.0, 300.0, "AISI 304", [1.0, 2.0], i_cut_a=200.0),
+         "mass has 2 entries"),
+        (lambda: cold_hot_start(MOTOR, 440.0, SECTIONS, 0.01, 5.0, 300.0, "AISI 304", 2.0, 40.0, 30.0, 200.0),
+         "must not be below ambient"),
+    ],
+)
+def test_bad_inputs_give_messages(call, words):
+    with pytest.raises((InputError, DesignError)) as error:
+        call()
+    assert words in str(error.value)
+
+
+@settings(max_examples=50, deadline=None)
+@given(energy=st.floats(0.0, 1e7), mass=st.floats(0.01, 100.0), alloy=st.sampled_from(sorted(ALLOYS)))
+def test_rise_times_heat_capacity_returns_the_energy(energy, mass, alloy):
+    rise = adiabatic_rise_k(energy, mass, alloy)
+    assert rise * mass * ALLOYS[alloy].specific_heat_j_per_kg_k == pytest.approx(energy, rel=1e-12, abs=1e-9)

@@ -1,0 +1,297 @@
+"""Checks of the time-domain start against closed forms, scipy and the grading law.
+
+The motor data below are round numbers of our own, not from any published problem.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from scipy import signal
+from scipy.integrate import solve_ivp
+
+from formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
+from formulas.dc_motor import SeriesMotor, ShuntMotor, magnetization_curve
+from formulas.errors import DesignError, InputError
+from formulas.grading import grade_uniform
+from formulas.start_sim import load_torque, simulate_start, start_history
+
+SHUNT = ShuntMotor(0.1, 0.4)
+V, VB = 440.0, 2.0
+CURVE = magnetization_curve([0, 50, 100, 150, 200, 300, 400, 600], [4, 70, 125, 165, 192, 225, 245, 265], 600.0)
+SERIES = SeriesMotor(0.07, CURVE)
+RAD = 2.0 * math.pi / 60.0
+
+
+def shunt_start(l_h=0.004, j=6.0, load=400.0, **switching):
+    grading = grade_uniform(SHUNT, V, 400.0, 220.0, None, VB)
+    switching = switching or {"i_cut_a": grading.i_switch_a[0]}
+    return grading, simulate_start(SHUNT, V, grading.r_section_ohm, l_h, j, load, brush_drop_v=VB, **switching)
+
+
+# -- zero-inductance limit: the grading table (Say & Taylor, Direct Current Machines, 2nd ed., 1986,
+#    graded starter; Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003, sec. 7.6) --------
+
+
+def test_shunt_peaks_tend_to_the_grading_table_as_inductance_vanishes():
+    grading, result = shunt_start(l_h=1e-7)
+    assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=1e-3)
+    assert result.i_peak_run_a == pytest.approx(grading.i_peak_a[0], rel=1e-3)
+    assert np.allclose(result.i_cut_a, grading.i_switch_a, rtol=1e-9)
+
+
+def test_series_peaks_tend_to_the_grading_table_as_inductance_vanishes():
+    grading = grade_uniform(SERIES, V, 450.0, 300.0, None, VB)
+    result = simulate_start(SERIES, V, grading.r_section_ohm, 1e-6, 5.0, 300.0, i_cut_a=grading.i_switch_a[0], brush_drop_v=VB)
+    assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)
+    assert result.i_peak_run_a == pytest.approx(grading.i_peak_a[0], rel=2e-3)
+
+
+def test_inductance_lowers_the_peaks_below_the_grading_table():
+    grading, result = shunt_start(l_h=0.02)
+    assert np.all(result.i_peak_a < grading.i_peak_a)
+
+
+# -- the shunt motor between cuts: analytic solution and scipy.signal.lsim ---------------------------
+
+
+def _unloaded_single_notch(l_h, j, r_section):
+    return simulate_start(SHUNT, V, [r_section], l_h, j, 0.0, dwell_s=[0.5], brush_drop_v=VB)
+
+
+@pytest.mark.parametrize("l_h, j", [(0.004, 6.0), (0.2, 0.05)])  # overdamped, then underdamped
+def test_shunt_notch_against_the_analytic_second_order_response(l_h, j):
+    # From rest, unloaded: L J'' characteristic s^2 + (R/L) s + (60/2pi)^2 K^2/(L J) = 0 and
+    # i(t) = V'/L * (e^{p1 t} - e^{p2 t})/(p1 - p2) (Fitzgerald, Kingsley, Umans, 6th ed., sec. 7.9).
+    r_total = SHUNT.r_ohm + 1.0
+    result = _unloaded_single_notch(l_h, j, 1.0)
+    history = start_history(result, SHUNT, 400, 0.5)
+    k = SHUNT.k_phi_v_per_rpm
+    p1, p2 = np.roots([1.0, r_total / l_h, C1 * C1 * k * k / (l_h * j)]).astype(complex)
+    t = history.t_s
+    expected = ((V - VB) / l_h * (np.exp(p1 * t) - np.exp(p2 * t)) / (p1 - p2)).real
+    assert np.allclose(history.i_a, expected, rtol=1e-9, atol=1e-9 * np.max(np.abs(expected)))
+
+
+def test_shunt_notches_against_scipy_lsim():
+    grading = grade_uniform(SHUNT, V, 400.0, 220.0, None, VB)
+    # definite-time, so that lsim can follow the start between fixed cut instants
+    dwells = np.full(grading.notches, 0.25)
+    result = simulate_start(SHUNT, V, grading.r_section_ohm, 0.01, 4.0, 300.0, dwell_s=dwells, brush_drop_v=VB)
+    k, l_h, j, t_load = SHUNT.k_phi_v_per_rpm, 0.01, 4.0, 300.0
+    state = None
+    for notch in range(2, grading.notches + 1):  # notches after the first never stand still
+        r = result.r_total_ohm[notch - 1]
+        a = [[-r / l_h, -k / l_h], [C1 * C1 * k / j, 0.0]]
+        b = [[1.0 / l_h, 0.0], [0.0, -C1 / j]]
+        system = signal.StateSpace(a, b, np.eye(2), np.zeros((2, 2)))
+        t = np.linspace(0.0, dwells[notch - 1], 201)
+        x0 = [result.i_cut_a[notch - 2], result.n_cut_rpm[notch - 2]]
+        u = np.tile([V - VB, t_load], (t.size, 1))
+        _, _, state = signal.lsim(system, u, t, X0=x0)
+        assert state[-1, 0] == pytest.approx(result.i_cut_a[notch - 1], rel=1e-6)
+        assert state[-1, 1] == pytest.approx(result.n_cut_rpm[notch - 1], rel=1e-6)
+    assert state is not None
+
+
+# -- a second method: solve_ivp written here, with the standstill as a clamp -----------------------
+
+
+def _reference_definite_time(motor, sections, l_h, j, t_load, dwells):
+    r_notch = motor.r_ohm + np.concatenate((np.cumsum(sections[::-1])[::-1], [0.0]))
+    y = np.zeros(3)
+    for r, dwell in zip(r_notch, dwells):
+        def rhs(t, y, r=r):
+            flux = float(motor.k_phi(max(y[0], 0.0)))
+            accel = C1 * (C1 * flux * y[0] - t_load) / j
+            if y[1] <= 0.0 and accel < 0.0:
+                accel = 0.0  # held at rest by the load's reaction
+            return [(V - VB - r * y[0] - flux * y[1]) / l_h, accel, y[0] ** 2 * (r - motor.r_ohm)]
+
+        sol = solve_ivp(rhs, (0.0, dwell), y, method="LSODA", rtol=1e-11, atol=[1e-9, 1e-9, 1e-6], max_step=dwell / 200)
+        yield r, sol.y[0, -1], sol.y[1, -1], np.max(sol.y[0]), sol.y[2, -1]
+        y = np.array([sol.y[0, -1], sol.y[1, -1], 0.0])
+
+
+@pytest.mark.parametrize("motor", [SHUNT, SERIES], ids=["shunt", "series"])
+def test_definite_time_start_against_an_independent_solve_ivp(motor):
+    sections = np.array([1.4, 0.8, 0.45, 0.25])
+    dwells = np.array([0.6, 0.4, 0.3, 0.25])
+    result = simulate_start(motor, V, sections, 0.006, 3.0, 250.0, dwell_s=dwells, brush_drop_v=VB)
+    reference = list(_reference_definite_time(motor, sections, 0.006, 3.0, 250.0, np.append(dwells, 0.0001)))[:-1]
+    for k, (_, i_end, n_end, peak, energy) in enumerate(reference):
+        assert result.i_cut_a[k] == pytest.approx(i_end, rel=1e-6)
+        assert result.n_cut_rpm[k] == pytest.approx(n_end, rel=1e-6)
+        assert result.i_peak_a[k] == pytest.approx(peak, rel=1e-4)  # the reference samples the peak on its steps
+        assert result.energy_notch_j[k] == pytest.approx(energy, rel=1e-6)
+
+
+def test_closed_form_agrees_with_the_integrator_on_a_current_limit_start():
+    grading, closed = shunt_start()
+    integrated = simulate_start(
+        SHUNT, V, grading.r_section_ohm, 0.004, 6.0, 400.0, i_cut_a=grading.i_switch_a[0], brush_drop_v=VB,
+        method="integrate", rtol=1e-10,
+    )
+    for name in ("t_start_s", "dwell_s", "i_peak_a", "n_cut_rpm", "energy_notch_j"):
+        assert np.allclose(getattr(closed, name), getattr(integrated, name), rtol=1e-7), name
+    assert closed.t_accel_s == pytest.approx(integrated.t_accel_s, rel=1e-7)
+
+
+# -- energy and momentum balance (conservation laws of the model equations) ------------------------
+
+
+def _balance_residuals(result, l_h, j, v=V, vb=VB):
+    i0 = np.concatenate(([0.0], result.i_cut_a[:-1]))
+    w0 = RAD * np.concatenate(([0.0], result.n_cut_rpm[:-1]))
+    w1 = RAD * result.n_cut_rpm
+    supply = v * result.charge_c
+    spent = (
+        result.r_total_ohm * result.i2t_a2s
+        + vb * result.charge_c
+        + 0.5 * l_h * (result.i_cut_a**2 - i0**2)
+        + result.work_load_j
+        + 0.5 * j * (w1**2 - w0**2)
+    )
+    return (supply - spent) / supply
+
+
+@pytest.mark.parametrize("method", ["auto", "integrate"])
+def test_energy_balance_of_every_notch_closes(method):
+    grading = grade_uniform(SHUNT, V, 400.0, 220.0, None, VB)
+    result = simulate_start(SHUNT, V, grading.r_section_ohm, 0.004, 6.0, 400.0, i_cut_a=grading.i_switch_a[0],
+                            brush_drop_v=VB, method=method, rtol=1e-10)
+    assert np.all(np.abs(_balance_residuals(result, 0.004, 6.0)) < 1e-8)
+
+
+def test_energy_balance_of_a_series_start_with_a_load_table_closes():
+    grading = grade_uniform(SERIES, V, 450.0, 300.0, None, VB)
+    table = [[0.0, 350.0], [300.0, 250.0], [900.0, 400.0]]
+    result = simulate_start(SERIES, V, grading.r_section_ohm, 0.005, 5.0, table, i_cut_a=grading.i_switch_a[0],
+                            brush_drop_v=VB, rtol=1e-10)
+    assert np.all(np.abs(_balance_residuals(result, 0.005, 5.0)) < 1e-7)
+
+
+def test_momentum_balance_of_the_notches_in_motion():
+    # J dw/dt = T - T_L integrated over a notch: J (w1 - w0) = (60/2pi) K q - T_L t (constant torque load)
+    _, result = shunt_start(load=400.0)
+    w = RAD * result.n_cut_rpm
+    lhs = 6.0 * np.diff(w)
+    rhs = C1 * SHUNT.k_phi_v_per_rpm * result.charge_c[1:] - 400.0 * result.dwell_s[1:]
+    assert np.allclose(lhs, rhs, rtol=1e-8)
+
+
+def test_constant_torque_dwell_against_the_first_order_mechanical_law():
+    # With L -> 0 a shunt notch is first order in speed: J dw/dt = T - T_L with T linear in speed gives
+    # t_k = tau_k ln((I1 - IL)/(I2 - IL)), tau_k = R_k J / ((60/2pi)^2 K^2)
+    # (Say & Taylor, Direct Current Machines, 2nd ed., 1986, starting: time on each notch).
+    grading, result = shunt_start(l_h=1e-7, j=6.0, load=400.0)
+    k = SHUNT.k_phi_v_per_rpm
+    i_load = 400.0 / (C1 * k)
+    tau = grading.r_total_ohm * 6.0 / (C1 * C1 * k * k)
+    expected = tau * np.log((grading.i_peak_a - i_load) / (grading.i_switch_a - i_load))
+    assert np.allclose(result.dwell_s, expected, rtol=1e-3)
+
+
+# -- the history ----------------------------------------------------------------------------------
+
+
+def test_history_passes_through_the_cut_out_states():
+    _, result = shunt_start()
+    history = start_history(result, SHUNT, 5000)
+    assert history.t_s.size == 5000 and np.all(np.diff(history.t_s) > 0.0)
+    at_cut = np.interp(result.t_start_s + result.dwell_s, history.t_s, history.n_rpm)
+    assert np.allclose(at_cut, result.n_cut_rpm, rtol=2e-3)
+    assert np.allclose(history.torque_nm, C1 * SHUNT.k_phi_v_per_rpm * history.i_a)
+    assert history.notch[0] == 1 and history.notch[-1] == result.notches + 1
+
+
+def test_the_shaft_stays_at_rest_until_the_motor_out_pulls_the_load():
+    result = simulate_start(SHUNT, V, [2.0, 1.0], 0.05, 6.0, 600.0, dwell_s=[0.5, 0.5], brush_drop_v=VB)
+    history = start_history(result, SHUNT, 2000)
+    moving = history.n_rpm > 0.0
+    assert np.all(history.n_rpm >= 0.0)
+    assert np.all(history.torque_nm[~moving & (history.t_s > 0)] <= 600.0 * (1 + 1e-9))
+
+
+# -- bad inputs: messages naming the argument, never a crash or a hang -----------------------------
+
+
+@pytest.mark.parametrize(
+    "change, words",
+    [
+        ({"inertia_kgm2": 0.0}, "inertia (0 kg·m²) must be above zero"),
+        ({"l_circuit_h": 0.0}, "l_circuit (0 H) must be above zero"),
+        ({"l_circuit_h": -0.01}, "l_circuit (-0.01 H) must be above zero"),
+        ({"load": 50000.0}, "the load is above the motor's capability"),
+        ({"load": -5.0}, "must not be negative"),
+        ({"i_cut_a": 60.0}, "notch 1 stalls"),
+        ({"i_cut_a": None, "dwell_s": [0.5, 0.5]}, "dwell has 2 entries but sections has 3"),
+        ({"i_cut_a": None}, "give either a cut-out current"),
+        ({"sections_ohm": [1.0, -0.2]}, "sections entry 2 (-0.2 ohm) must be above zero"),
+        ({"method": "euler"}, "method ('euler') must be one of: auto, integrate"),
+    ],
+)
+def test_bad_inputs_give_messages(change, words):
+    arguments = dict(motor=SHUNT, v_supply_v=V, sections_ohm=[1.0, 0.5, 0.25], l_circuit_h=0.01, inertia_kgm2=5.0,
+                     load=300.0, i_cut_a=200.0, brush_drop_v=VB)
+    arguments.update(change)
+    with pytest.raises((InputError, DesignError)) as error:
+        simulate_start(**arguments)
+    assert words in str(error.value)
+
+
+def test_an_unloaded_series_motor_is_refused():
+    with pytest.raises(DesignError, match="runs away"):
+        simulate_start(SERIES, V, [1.0, 0.5], 0.01, 5.0, 0.0, i_cut_a=250.0)
+
+
+def test_load_table_validation():
+    with pytest.raises(InputError, match="rise strictly"):
+        load_torque([[0.0, 10.0], [0.0, 12.0]])
+    assert load_torque([[0.0, 10.0], [100.0, 20.0]]).at(50.0) == pytest.approx(15.0)
+
+
+@settings(max_examples=25, deadline=None)
+@given(
+    l_h=st.floats(1e-4, 0.1),
+    j=st.floats(0.5, 50.0),
+    t_load=st.floats(0.0, 1200.0),
+    i_cut=st.floats(120.0, 380.0),
+)
+def test_any_shunt_start_balances_or_gives_a_message(l_h, j, t_load, i_cut):
+    try:
+        result = simulate_start(SHUNT, V, [2.0, 1.0, 0.5, 0.25], l_h, j, t_load, i_cut_a=i_cut, brush_drop_v=VB)
+    except (InputError, DesignError) as error:
+        assert str(error)
+        return
+    assert np.all(np.abs(_balance_residuals(result, l_h, j)) < 1e-7)
+    assert np.all(result.i_cut_a == pytest.approx(i_cut))
+
+
+def test_a_stall_names_its_notch_and_the_dynamics_confirm_it():
+    # Notch 3 of this load stiffening with speed cannot bring the current down to 170 A: run the same
+    # start on timers with a long third dwell and the current settles above 170 A (a second method).
+    table = [[0.0, 150.0], [600.0, 450.0], [1200.0, 900.0]]
+    arguments = dict(motor=SHUNT, v_supply_v=V, sections_ohm=[1.0, 0.5, 0.25], l_circuit_h=0.01, inertia_kgm2=5.0,
+                     load=table, brush_drop_v=VB)
+    with pytest.raises(DesignError, match="notch 3 stalls"):
+        simulate_start(**arguments, i_cut_a=170.0)
+    timed = simulate_start(**arguments, dwell_s=[1.0, 1.0, 30.0])
+    assert timed.i_cut_a[2] > 170.0
+    assert simulate_start(**arguments, i_cut_a=190.0).i_cut_a == pytest.approx(190.0)
+
+
+def test_compound_start_balances_and_tends_to_the_grading_table():
+    from formulas.dc_motor import CompoundMotor
+
+    curve = magnetization_curve([0, 1000, 3000, 6000, 9000], [0, 100, 200, 260, 290], 800.0, "ampere-turns")
+    motor = CompoundMotor(0.08, curve, 1500.0, 10.0)
+    grading = grade_uniform(motor, V, 400.0, 250.0, None, VB)
+    result = simulate_start(motor, V, grading.r_section_ohm, 1e-6, 5.0, 200.0, i_cut_a=grading.i_switch_a[0],
+                            brush_drop_v=VB, rtol=1e-10)
+    assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)  # the grading limit, as for the series motor
+    assert np.all(np.abs(_balance_residuals(result, 1e-6, 5.0)) < 1e-7)
