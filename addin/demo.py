@@ -25,13 +25,21 @@ def add_parser(subparsers) -> None:
     parser.set_defaults(run=run)
 
 
+#: Rows of a table printed on the terminal; a longer one (a time history) is cut, the workbook holds it all.
+MAX_PRINTED_ROWS = 12
+
+
 def format_table(rows) -> str:
     """Rows of cells (a spilled result, or one value or error text) as aligned plain text."""
     if not isinstance(rows, list):
         return f"{rows:.6g}" if isinstance(rows, float) else str(rows)
-    text = [[f"{c:.4g}" if isinstance(c, float) else str(c) for c in row] for row in rows]
+    shown = rows[:MAX_PRINTED_ROWS]
+    text = [[f"{c:.4g}" if isinstance(c, float) else str(c) for c in row] for row in shown]
     widths = [max(len(row[k]) for row in text) for k in range(len(text[0]))]
-    return "\n".join("  ".join(cell.rjust(w) for cell, w in zip(row, widths)) for row in text)
+    lines = ["  ".join(cell.rjust(w) for cell, w in zip(row, widths)) for row in text]
+    if len(rows) > len(shown):
+        lines.append(f"... {len(rows) - len(shown)} more rows in the workbook")
+    return "\n".join(lines)
 
 
 def run(arguments) -> int:

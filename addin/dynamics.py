@@ -21,6 +21,8 @@ series_turns   turns     compound only: series-field turns per pole
 
 from __future__ import annotations
 
+import math
+
 from formulas.dc_motor import SeriesMotor, ShuntMotor
 from formulas.errors import InputError
 from formulas.resistors import ALLOYS, cold_hot_start, rise_verdict, section_duty
@@ -234,9 +236,14 @@ def NW_WORST_CASE(
 
     rows = [
         corner("highest peak current [A]", sweep.i_peak_a[sweep.worst_peak], sweep.worst_peak, nan),
-        corner("smallest cut-out margin [-]", sweep.margin[sweep.worst_margin], sweep.worst_margin,
+        corner("smallest cut-out margin [-]", _margin_cell(sweep.margin[sweep.worst_margin]), sweep.worst_margin,
                sweep.margin_notch[sweep.worst_margin]),
         ["corners [-]", sweep.v_supply_v.size, nan, nan, nan, nan],
         ["corners in which a notch stalls [-]", sweep.stalls, nan, nan, nan, nan],
     ]
     return spill(WORST_HEADER, rows, flag("headers", headers, True))
+
+
+def _margin_cell(margin: float):
+    """A stalled notch has no finite margin (the core's -inf): say so in words."""
+    return "stalls: the notch cannot reach its cut-out current" if margin == -math.inf else margin

@@ -27,9 +27,12 @@ from xlsxwriter.utility import xl_cell_to_rowcol, xl_range_abs, xl_rowcol_to_cel
 
 from addin import CAUTION, udfs
 from addin.cells import call_with_cells
-from workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST
+from workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START
 
-__all__ = ["Input", "Table", "Literal", "Result", "Sweep", "Chart", "Sheet", "Computed", "SHEETS", "build", "DEFAULT_PATH"]
+__all__ = [
+    "Input", "Table", "Link", "Literal", "Result", "Part", "Sweep", "Chart", "Sheet", "Computed", "SHEETS", "build",
+    "DEFAULT_PATH",
+]
 
 DEFAULT_PATH = Path(__file__).with_name("notchwise-reference.xlsx")
 SERIES_WARNING = "Series motors must never be run unloaded: with no load they race to destruction."
@@ -47,6 +50,20 @@ FUNCTION_BASIS = {
         "Uniform current-limit grading (formulas.grading): M. G. Say and E. O. Taylor, Direct Current "
         "Machines, 2nd ed., Pitman, 1986, starting and speed control; A. E. Fitzgerald, C. Kingsley Jr., "
         "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.6."
+    ),
+    "start": (
+        "Time-domain start L di/dt = V - Vb - R i - kΦ(i) n, J dω/dt = T - T_load (formulas.start_sim), closed "
+        "form for the shunt motor, Radau otherwise: A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, Electric "
+        "Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.9; E. Hairer and G. Wanner, Solving Ordinary "
+        "Differential Equations II, 2nd ed., Springer, 1996 (Radau IIA)."
+    ),
+    "heating": (
+        "Section energy, r.m.s. duty, adiabatic rise m·c·ΔT = E and R(θ) = R20(1 + α(θ - 20 °C)) "
+        "(formulas.resistors); alloy data and the IEEE Std 32 rise limits from memory, see formulas/resistors.py."
+    ),
+    "relay": (
+        "Inverse-time elements t = m(k/(M^α - 1) + c) (formulas.relays): IEC 60255-151:2009, Table 1; "
+        "IEEE Std C37.112-1996, Table 1; operate progress Σ dt/t(I); thermal element IEC 60255-149."
     ),
     "machine": (
         "DC machine laws E = kΦn, T = (60/2π)kΦI, V = E + IR + Vb (formulas.dc_motor): A. E. Fitzgerald, "
@@ -77,6 +94,27 @@ class Table:
 
 
 @dataclass(frozen=True)
+class Link:
+    """An input cell that repeats another sheet's named input (``=name``), so one edit serves both."""
+
+    name: str
+
+
+@dataclass(frozen=True)
+class Part:
+    """A defined name over some columns of a spilled table's body (header row left out).
+
+    Later results may take it as an argument, so that one result feeds another
+    and both follow edits: the graded sections feed the start in time, whose
+    history feeds the protection check.
+    """
+
+    name: str
+    first_column: int
+    last_column: int
+
+
+@dataclass(frozen=True)
 class Literal:
     """A literal argument written into the formula (text, number or TRUE/FALSE)."""
 
@@ -101,6 +139,7 @@ class Result:
     unit: str = ""
     labels: tuple = ()
     chart: Chart | None = None
+    parts: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -117,6 +156,9 @@ class Chart:
     x: int
     y: tuple
     y_label: str = ""
+    y2: tuple = ()  # columns drawn against a second value axis on the right
+    y2_label: str = ""
+    markers: bool = True
 
 
 @dataclass(frozen=True)
@@ -181,6 +223,7 @@ def _hoist_sheet() -> Sheet:
                 "NW_GRADE_SERIES",
                 (*motor, "hoist_i_peak", "hoist_i_switch", "hoist_mag_curve", None, "hoist_brush_drop"),
                 FUNCTION_BASIS["grading"],
+                parts=(Part("hoist_sections", 2, 2),),
             ),
             Result(
                 "Least load that holds the motor at or below n_max",
@@ -276,8 +319,116 @@ def _contractor_sheet() -> Sheet:
     )
 
 
-#: The workbook's case sheets, in order. Add a case here (e.g. protection settings) to add a sheet.
-SHEETS = (_hoist_sheet(), _conveyor_sheet(), _contractor_sheet())
+def _hoist_start_sheet() -> Sheet:
+    h, d = HOIST.inputs, HOIST_START.inputs
+    start = ("hoist_motor", "hoist_sections", "hoist_load_torque", "hoist_i_cut")
+    return Sheet(
+        name="Hoist start",
+        title=HOIST_START.title,
+        story=HOIST_START.story + " Motor data link to the Hoist sheet; the sections are its graded ones.",
+        inputs=(
+            Table("hoist_motor", "Motor for the start in time (name, value)", ("name", "value", "unit"), [
+                ["kind", "series", "-"],
+                ["v_supply", Link("hoist_v_supply"), "V"],
+                ["r_motor", Link("hoist_r_motor"), "ohm"],
+                ["l_circuit", h["l_circuit"], "H"],
+                ["inertia", h["inertia"], "kg·m²"],
+                ["mag_speed", Link("hoist_mag_speed"), "rpm"],
+                ["brush_drop", Link("hoist_brush_drop"), "V"],
+            ]),
+            Input("hoist_load_torque", "Hoisting torque of the rated load on the motor shaft", h["load_torque"], "N·m"),
+            Input("hoist_i_cut", "Cut-out current of the accelerating relays", d["i_cut"], "A"),
+            Input("hoist_history_points", "Points of the time history", d["history_points"], "-"),
+            Input("hoist_alloy", "Grid element alloy", d["alloy"], "-"),
+            Input("hoist_grid_mass", "Element mass per section", d["grid_mass"], "kg"),
+            Input("hoist_starts_per_hour", "Starts per hour", d["starts_per_hour"], "1/h"),
+            Input("hoist_v_low", "Supply band, low side", d["v_low"], "-"),
+            Input("hoist_v_high", "Supply band, high side", d["v_high"], "-"),
+            Input("hoist_tolerance", "Resistor tolerance", d["tolerance"], "-"),
+            Input("hoist_hot", "Hot grid temperature", d["hot"], "°C"),
+            Input("hoist_corner_points", "Points per swept quantity", d["corner_points"], "-"),
+        ),
+        results=(
+            Result("Notch by notch: times, peaks, cut-out speeds, energy", "NW_START_SIM",
+                   (*start, "hoist_mag_curve"), FUNCTION_BASIS["start"]),
+            Result(
+                "Starting diagram: the time history", "NW_START_HISTORY",
+                (*start, "hoist_history_points", "hoist_mag_curve"), FUNCTION_BASIS["start"],
+                chart=Chart("Hoist start: armature current and speed against time", x=0, y=(1,), y2=(2,),
+                            markers=False),
+                parts=(Part("hoist_start_history", 0, 1),),
+            ),
+            Result(
+                "Grid sections: energy, duty, rise, cold and hot peaks", "NW_SECTION_HEATING",
+                (*start, "hoist_alloy", "hoist_grid_mass", "hoist_starts_per_hour", None, None, "hoist_mag_curve"),
+                FUNCTION_BASIS["heating"],
+            ),
+            Result(
+                "Worst case over supply band, tolerance and grid temperature", "NW_WORST_CASE",
+                (*start, "hoist_v_low", "hoist_v_high", "hoist_tolerance", "hoist_alloy", "hoist_hot",
+                 "hoist_corner_points", None, "hoist_mag_curve"),
+                FUNCTION_BASIS["start"],
+            ),
+        ),
+        notes=(SERIES_WARNING,),
+    )
+
+
+def _hoist_protection_sheet() -> Sheet:
+    p = HOIST_PROTECTION.inputs
+    settings = ("hoist_start_history", "hoist_curve", "hoist_pickup", "hoist_multiplier")
+    return Sheet(
+        name="Hoist protection",
+        title=HOIST_PROTECTION.title,
+        story=HOIST_PROTECTION.story + " The current history is the one simulated on the Hoist start sheet.",
+        inputs=(
+            Input("hoist_curve", "Inverse-time curve of the motor relay", p["curve"], "-"),
+            Input("hoist_i_full_load", "Full-load current of the motor", p["i_full_load"], "A"),
+            Input("hoist_i_stall", "Current of a stall on notch 1 (jammed hook)", p["i_stall"], "A"),
+            Input("hoist_t_stall", "Time the motor withstands that current", p["t_stall"], "s"),
+            Input("hoist_pickup", "Pickup as set", p["pickup"], "A"),
+            Input("hoist_multiplier", "TMS as set", p["multiplier"], "-"),
+            Input("hoist_highset", "High-set pickup as set", p["highset"], "A"),
+            Input("hoist_highset_delay", "High-set delay as set", p["highset_delay"], "s"),
+            Input("hoist_k_factor", "Thermal element k factor", p["k_factor"], "-"),
+            Input("hoist_tau", "Thermal time constant of the motor", p["tau"], "s"),
+            Input("hoist_curve_up", "Curve of the feeder relay upstream", p["curve_up"], "-"),
+            Input("hoist_pickup_up", "Pickup of the feeder relay", p["pickup_up"], "A"),
+            Input("hoist_i_max", "Largest fault current at the motor", p["i_max"], "A"),
+        ),
+        results=(
+            Result(
+                "Settings proposed from the start, with their reasoning", "NW_PROPOSE_SETTINGS",
+                ("hoist_start_history", "hoist_curve", "hoist_i_full_load", "hoist_i_stall", "hoist_t_stall"),
+                FUNCTION_BASIS["relay"],
+            ),
+            Result(
+                "Ride-through of the start with the settings as set", "NW_RIDE_THROUGH",
+                (*settings, "hoist_highset", "hoist_highset_delay", "hoist_i_full_load", "hoist_k_factor",
+                 "hoist_tau"),
+                FUNCTION_BASIS["relay"],
+            ),
+            Result(
+                "Coordination with the feeder relay upstream", "NW_COORDINATE",
+                ("hoist_curve_up", "hoist_pickup_up", "hoist_curve", "hoist_pickup", "hoist_multiplier",
+                 "hoist_i_max", None, "hoist_highset", "hoist_highset_delay"),
+                FUNCTION_BASIS["relay"],
+            ),
+        ),
+        sweeps=(
+            Sweep(
+                "Operating time of the motor relay as set",
+                Table("hoist_relay_current", "Current", ("current [A]",), [[i] for i in p["sweep_current"]]),
+                (("operating time [s]", "NW_RELAY_TIME", ("hoist_curve", EACH, "hoist_pickup", "hoist_multiplier"),
+                  FUNCTION_BASIS["relay"]),),
+                Chart("Motor relay: operating time against current", x=0, y=(1,)),
+            ),
+        ),
+    )
+
+
+#: The workbook's case sheets, in order. Add a case here to add a sheet.
+SHEETS = (_hoist_sheet(), _hoist_start_sheet(), _hoist_protection_sheet(), _conveyor_sheet(), _contractor_sheet())
 
 HOW_TO_GO_LIVE = (
     "The figures you see were computed by Notchwise when this file was built and are saved with it, so Excel "
@@ -349,7 +500,8 @@ class _Writer:
         if isinstance(argument, Literal):
             return argument.formula_text(), argument.value, argument.formula_text()
         value = self.values[argument]
-        shown = f"{value:g}" if isinstance(value, float) else f"table of {len(value)} rows"
+        shown = f"table of {len(value)} rows" if isinstance(value, list) else (
+            f"{value:g}" if isinstance(value, float) else str(value))
         return argument, value, f"{argument} = {shown}"
 
     def _call(self, function, arguments, each=None):
@@ -359,6 +511,15 @@ class _Writer:
         formula = f"={function}({','.join(p[0] for p in parts)})"
         result = call_with_cells(getattr(udfs, function), [p[1] for p in parts])
         return formula, result, "; ".join(p[2] for p in parts)
+
+    def _write_input(self, ws, row, col, value, fmt):
+        """An input cell; a :class:`Link` becomes ``=name`` saved with the linked value. Returns the value."""
+        if isinstance(value, Link):
+            linked = self.values[value.name]
+            ws.write_formula(row, col, f"={value.name}", fmt, linked)
+            return linked
+        self._write_value(ws, row, col, value, fmt)
+        return value
 
     def _write_value(self, ws, row, col, value, fmt):
         if isinstance(value, str):
@@ -446,22 +607,23 @@ class _Writer:
     def _input(self, ws, sheet, item, row, col):
         if isinstance(item, Input):
             ws.write(row, col, item.label, self.fmt["label"])
-            self._write_value(ws, row, col + 1, item.value, self.fmt["input"])
+            value = self._write_input(ws, row, col + 1, item.value, self.fmt["input"])
             ws.write(row, col + 2, item.unit, self.fmt["unit"])
             ws.write(row, col + 3, item.name, self.fmt["name"])
             self.book.define_name(item.name, f"='{sheet.name}'!{xl_rowcol_to_cell(row, col + 1, True, True)}")
-            self.values[item.name] = item.value
+            self.values[item.name] = value
             return row
         ws.write(row, col, item.label, self.fmt["label"])
         ws.write(row, col + 3, item.name, self.fmt["name"])
         ws.write_row(row + 1, col + 1, item.columns, self.fmt["head"])
         first = row + 2
-        for r, cells in enumerate(item.rows):
-            for c, value in enumerate(cells):
-                self._write_value(ws, first + r, col + 1 + c, value, self.fmt["input"])
+        values = [
+            [self._write_input(ws, first + r, col + 1 + c, value, self.fmt["input"]) for c, value in enumerate(cells)]
+            for r, cells in enumerate(item.rows)
+        ]
         last = first + len(item.rows) - 1
         self.book.define_name(item.name, f"='{sheet.name}'!{xl_range_abs(first, col + 1, last, col + len(item.columns))}")
-        self.values[item.name] = [list(r) for r in item.rows]
+        self.values[item.name] = values
         return last
 
     def _result(self, ws, sheet, result: Result, row, col):
@@ -474,10 +636,14 @@ class _Writer:
         where = self._write_result(ws, row, col, formula, value)
         if result.unit:
             ws.write(row, col + 1, result.unit, self.fmt["unit"])
+        header = [str(v) for v in value[0]] if isinstance(value, list) and all(isinstance(v, str) for v in value[0]) else []
+        first = row + (1 if header else 0)
+        for part in result.parts:
+            self.book.define_name(part.name, f"='{sheet.name}'!" + xl_range_abs(
+                first, col + part.first_column, row + len(value) - 1, col + part.last_column))
+            self.values[part.name] = [cells[part.first_column: part.last_column + 1] for cells in value[len(header) > 0:]]
         if result.chart and isinstance(value, list):
-            header = [str(v) for v in value[0]] if all(isinstance(v, str) for v in value[0]) else []
             names = header or [f"column {k + 1}" for k in range(len(value[0]))]
-            first = row + (1 if header else 0)
             self._chart(ws, sheet.name, result.chart, names, first, row + len(value) - 1, col,
                         (row, col + len(value[0]) + 1))
         self.computed.append(Computed(sheet.name, where, result.function, formula, inputs, value, result.basis,
@@ -507,22 +673,26 @@ class _Writer:
 
     def _chart(self, ws, sheet_name, spec: Chart, names, first, last, col, where):
         """A scatter chart of block columns ``spec.y`` against ``spec.x``, rows ``first`` to ``last``."""
-        chart = self.book.add_chart({"type": "scatter", "subtype": "straight_with_markers"})
-        colours = (INK, SAND_EDGE, MIST_EDGE, "#8A2D1E")
-        for k, y in enumerate(spec.y):
+        chart = self.book.add_chart({"type": "scatter", "subtype": "straight_with_markers" if spec.markers else "straight"})
+        colours = (INK, "#8A2D1E", MIST_EDGE, SAND_EDGE)
+        for k, y in enumerate((*spec.y, *spec.y2)):
+            colour = colours[k % len(colours)]
             chart.add_series({
                 "name": names[y],
                 "categories": [sheet_name, first, col + spec.x, last, col + spec.x],
                 "values": [sheet_name, first, col + y, last, col + y],
-                "line": {"color": colours[k % len(colours)], "width": 1.75},
-                "marker": {"type": "diamond", "size": 6, "fill": {"color": SAND_EDGE},
-                           "border": {"color": colours[k % len(colours)]}},
+                "line": {"color": colour, "width": 1.75},
+                "marker": {"type": "diamond", "size": 6, "fill": {"color": SAND_EDGE}, "border": {"color": colour}}
+                if spec.markers else {"type": "none"},
+                "y2_axis": y in spec.y2,
             })
         grid = {"visible": True, "line": {"color": MIST}}
         chart.set_title({"name": spec.title, "name_font": {"size": 11, "color": INK}})
         chart.set_x_axis({"name": names[spec.x], "major_gridlines": grid})
         chart.set_y_axis({"name": spec.y_label or names[spec.y[0]], "major_gridlines": grid})
-        chart.set_legend({"none": True} if len(spec.y) == 1 else {"position": "bottom"})
+        if spec.y2:
+            chart.set_y2_axis({"name": spec.y2_label or names[spec.y2[0]]})
+        chart.set_legend({"none": True} if len(spec.y) + len(spec.y2) == 1 else {"position": "bottom"})
         chart.set_plotarea({"fill": {"color": "#FCFCFA"}})
         ws.insert_chart(*where, chart, {"x_scale": 1.25, "y_scale": 1.2})
 

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "DemoCase"]
+__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "HOIST_START", "HOIST_PROTECTION", "DemoCase"]
 
 
 @dataclass(frozen=True)
@@ -98,5 +98,52 @@ CONTRACTOR = DemoCase(
         "i_switch": 290.0,
         "i_limit": 420.0,
         "i_commutation": 480.0,
+    },
+)
+
+#: The Merrow hoist started in time, its resistor grid and its protection (invented settings data).
+HOIST_START = DemoCase(
+    key="hoist start",
+    title="Merrow quay crane 3, main hoist: the start in time and the resistor grid",
+    story=(
+        "The graded sections of the quay crane 3 hoist, started against the rated hook load with "
+        "current relays set to cut out at 300 A; stainless-steel grid elements."
+    ),
+    inputs={
+        "i_cut": 300.0,
+        "history_points": 120.0,
+        "alloy": "AISI 304",
+        "grid_mass": 4.0,
+        "starts_per_hour": 30.0,
+        "v_low": -0.10,
+        "v_high": 0.10,
+        "tolerance": 0.05,
+        "hot": 300.0,
+        "corner_points": 2.0,
+    },
+)
+
+HOIST_PROTECTION = DemoCase(
+    key="hoist protection",
+    title="Merrow quay crane 3, main hoist: overcurrent and thermal protection",
+    story=(
+        "Settings for the hoist motor's protection, proposed from the simulated start and checked to ride "
+        "through it, with the quay substation's feeder relay upstream."
+    ),
+    inputs={
+        "curve": "IEC VI",
+        "i_full_load": 205.0,
+        "i_stall": 420.0,
+        "t_stall": 20.0,
+        "pickup": 250.0,
+        "multiplier": 0.05,
+        "highset": 540.0,
+        "highset_delay": 0.05,
+        "k_factor": 1.05,
+        "tau": 900.0,
+        "curve_up": "IEC SI",
+        "pickup_up": 600.0,
+        "i_max": 3600.0,
+        "sweep_current": [260.0, 300.0, 350.0, 420.0, 500.0, 700.0, 1000.0, 1500.0, 2200.0, 3000.0, 4000.0],
     },
 )
