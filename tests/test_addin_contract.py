@@ -226,3 +226,17 @@ def test_cell_values_are_shaped_as_xlwings_converts_them(excel, currents):
     assert conversion.write(one_row_curve, None, options) == call_like_excel(
         conversion, func, (150.0, (SERIES_CURVE[1],), 800.0)
     )
+
+
+def test_readme_lists_every_function_with_its_arguments():
+    """The README's function tables are the designer's reference: every function, every argument, in order."""
+    from pathlib import Path
+
+    import addin.udfs as plain
+
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    listed = dict(re.findall(r"`(NW_[A-Z0-9_]+)\(([^)]*)\)`", readme))
+    for name in plain.__all__:
+        params = inspect.signature(getattr(plain, name)).parameters.values()
+        wanted = ", ".join(p.name if p.default is p.empty else f"[{p.name}]" for p in params)
+        assert listed.get(name) == wanted, f"README lists {name}({listed.get(name)}); the function is {name}({wanted})"
