@@ -51,6 +51,10 @@ _DOC = {
 }
 
 
+#: Help of the arguments every grading function shares.
+_GRADING_DOCS = {name: _DOC[name] for name in ("v_supply", "i_peak", "i_switch", "notches", "brush_drop", "headers")}
+
+
 def _series_curve(mag_curve, mag_speed=None, optional=False):
     rows = table("mag_curve", mag_curve, ("current", "EMF"), ("A", "V"), min_rows=2, optional=optional)
     if rows is None:
@@ -96,15 +100,7 @@ def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, header
     return spill(GRADING_HEADER, rows, flag("headers", headers, True))
 
 
-@cell_function(
-    v_supply=_DOC["v_supply"],
-    r_armature="Armature-circuit resistance of the motor [ohm]",
-    i_peak=_DOC["i_peak"],
-    i_switch=_DOC["i_switch"],
-    notches=_DOC["notches"],
-    brush_drop=_DOC["brush_drop"],
-    headers=_DOC["headers"],
-)
+@cell_function(**_GRADING_DOCS, r_armature="Armature-circuit resistance of the motor [ohm]")
 def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC shunt or separately excited motor: one row per notch, geometric current-limit law."""
     motor = _shunt_motor(require_positive("r_armature", r_armature, "ohm"))
@@ -113,14 +109,9 @@ def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_d
 
 @cell_function(
     tables=("mag_curve",),
-    v_supply=_DOC["v_supply"],
+    **_GRADING_DOCS,
     r_motor=_DOC["r_motor"],
-    i_peak=_DOC["i_peak"],
-    i_switch=_DOC["i_switch"],
     mag_curve="Optional magnetization curve: current [A] and EMF [V] columns; blank: flux proportional to current",
-    notches=_DOC["notches"],
-    brush_drop=_DOC["brush_drop"],
-    headers=_DOC["headers"],
 )
 def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC series motor, flux following current on its magnetization curve: one row per notch."""
@@ -130,16 +121,11 @@ def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches
 
 @cell_function(
     tables=("mag_curve",),
-    v_supply=_DOC["v_supply"],
+    **_GRADING_DOCS,
     r_motor=_DOC["r_motor"],
-    i_peak=_DOC["i_peak"],
-    i_switch=_DOC["i_switch"],
     mag_curve="Magnetization curve: field ampere-turns per pole [A] and EMF [V] columns; a text header row is skipped",
     shunt_at="Shunt-field ampere-turns per pole, constant [A]",
     series_turns="Series-field turns per pole [turns]",
-    notches=_DOC["notches"],
-    brush_drop=_DOC["brush_drop"],
-    headers=_DOC["headers"],
 )
 def NW_GRADE_COMPOUND(
     v_supply, r_motor, i_peak, i_switch, mag_curve, shunt_at, series_turns, notches=None, brush_drop=None, headers=None
