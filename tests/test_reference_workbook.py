@@ -48,10 +48,19 @@ def test_committed_workbook_is_what_the_script_builds(tmp_path):
     # Regression pin: the committed file must be regenerated when the description changes.
     fresh = tmp_path / "fresh.xlsx"
     build(fresh)
-    assert _contents(fresh) == _contents(REFERENCE)
+    built, committed = _contents(fresh), _contents(REFERENCE)
+    assert built["names"] == committed["names"] and built["sheets"] == committed["sheets"]
+    assert built["cells"].keys() == committed["cells"].keys()
+    for where, (text, saved, kind) in committed["cells"].items():
+        assert built["cells"][where] == (_close(text), _close(saved), kind), where
     again = tmp_path / "again.xlsx"
     build(again)
     assert again.read_bytes() == fresh.read_bytes(), "the build must be deterministic"
+
+
+def _close(value):
+    """A figure as compared: another numpy/scipy build may move its last digits; a real change is larger."""
+    return pytest.approx(value, rel=1e-9, abs=1e-12) if isinstance(value, float) else value
 
 
 def test_every_nw_cell_has_its_result_saved_and_is_listed():
