@@ -11,8 +11,8 @@ from __future__ import annotations
 import numpy as np
 
 from formulas.dc_motor import SeriesMotor, ShuntMotor, k_phi_from_rating, magnetization_curve, steady_speed_rpm
-from formulas.grading import grade_uniform
-from formulas.start_sim import notch_resistances_ohm, simulate_start, start_history
+from formulas.grading import grade_uniform, notch_resistances_ohm
+from formulas.start_sim import simulate_start, start_history
 from workbooks.demo_cases import CONVEYOR, HOIST
 
 from . import CAUTION

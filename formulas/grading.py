@@ -48,7 +48,16 @@ from scipy.optimize import brentq
 from .dc_motor import effective_supply_v
 from .errors import DesignError, InputError, as_float, as_float_array, quantity, require_below, require_count, require_positive
 
-__all__ = ["MAX_NOTCHES", "Grading", "grade_uniform", "SectionCheck", "check_sections", "peak_after_cut_a"]
+__all__ = [
+    "MAX_NOTCHES",
+    "Grading",
+    "grade_uniform",
+    "checked_sections",
+    "notch_resistances_ohm",
+    "SectionCheck",
+    "check_sections",
+    "peak_after_cut_a",
+]
 
 #: Most notches accepted; crane and mill controllers use far fewer. Common practice, no source.
 MAX_NOTCHES = 30
@@ -233,6 +242,23 @@ def peak_after_cut_a(motor, v_eff_v: float, r_before_ohm: float, r_after_ohm: fl
     return brentq(surplus_v, i_cut_a, i_top, xtol=1e-10, rtol=1e-13)
 
 
+def checked_sections(sections_ohm) -> np.ndarray:
+    """Section resistances as an array, each above zero, at most :data:`MAX_NOTCHES`. [ohm]"""
+    sections = as_float_array("sections", sections_ohm, "ohm")
+    if sections.size > MAX_NOTCHES:
+        raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
+    if np.any(sections <= 0.0):
+        k = int(np.argmax(sections <= 0.0))
+        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be above zero")
+    return sections
+
+
+def notch_resistances_ohm(r_motor_ohm: float, sections_ohm) -> np.ndarray:
+    """Whole circuit resistance on notches 1..N and on the run (N+1 values). [ohm]"""
+    sections = np.asarray(sections_ohm, dtype=float)
+    return r_motor_ohm + np.concatenate((np.cumsum(sections[::-1])[::-1], [0.0]))
+
+
 @dataclass(frozen=True)
 class SectionCheck:
     """Currents of a given set of sections, one entry per step.
@@ -297,17 +323,12 @@ def check_sections(
     SectionCheck
     """
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
-    sections = as_float_array("sections", sections_ohm, "ohm")
-    if sections.size > MAX_NOTCHES:
-        raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
-    if np.any(sections <= 0.0):
-        k = int(np.argmax(sections <= 0.0))
-        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be above zero")
+    sections = checked_sections(sections_ohm)
     i_switch = require_positive("i_switch", i_switch_a, "A")
     i_limit = require_positive("i_limit", i_limit_a, "A")
     i_commutation = require_positive("i_commutation", i_commutation_a, "A")
     r_motor = require_positive("r_motor", as_float("r_motor", motor.r_ohm, "ohm"), "ohm")
-    r = r_motor + np.concatenate((np.cumsum(sections[::-1])[::-1], [0.0]))
+    r = notch_resistances_ohm(r_motor, sections)
     peaks = np.empty(r.size)
     peaks[0] = v_eff / r[0]
     if peaks[0] > motor.i_max_a:

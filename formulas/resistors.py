@@ -32,7 +32,8 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
-from .start_sim import StartResult, checked_sections, simulate_start
+from .grading import checked_sections
+from .start_sim import StartResult, simulate_start
 
 __all__ = [
     "Alloy",

@@ -78,7 +78,7 @@ from scipy.optimize import brentq
 
 from .dc_motor import NM_PER_V_A_PER_RPM, SeriesMotor, ShuntMotor, effective_supply_v, torque_nm
 from .errors import DesignError, InputError, as_float_array, choose, quantity, require_count, require_positive
-from .grading import MAX_NOTCHES
+from .grading import checked_sections, notch_resistances_ohm
 
 __all__ = [
     "SETTLED_FRACTION",
@@ -89,8 +89,6 @@ __all__ = [
     "simulate_start",
     "History",
     "start_history",
-    "checked_sections",
-    "notch_resistances_ohm",
     "settling_current_a",
 ]
 
@@ -255,23 +253,6 @@ class StartResult:
     def t_end_s(self) -> float:
         """End of the last computed segment. [s]"""
         return self.segments[-1].t1_s
-
-
-def checked_sections(sections_ohm) -> np.ndarray:
-    """Section resistances as an array, each above zero, at most :data:`MAX_NOTCHES`. [ohm]"""
-    sections = as_float_array("sections", sections_ohm, "ohm")
-    if sections.size > MAX_NOTCHES:
-        raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
-    if np.any(sections <= 0.0):
-        k = int(np.argmax(sections <= 0.0))
-        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be above zero")
-    return sections
-
-
-def notch_resistances_ohm(r_motor_ohm: float, sections_ohm) -> np.ndarray:
-    """Whole circuit resistance on notches 1..N and on the run (N+1 values). [ohm]"""
-    sections = np.asarray(sections_ohm, dtype=float)
-    return r_motor_ohm + np.concatenate((np.cumsum(sections[::-1])[::-1], [0.0]))
 
 
 def _motor_torque_nm(motor, i_a):

@@ -36,7 +36,8 @@ import numpy as np
 from .dc_motor import effective_supply_v, torque_nm
 from .errors import DesignError, InputError, as_float, quantity, require_count, require_non_negative
 from .resistors import resistance_at_c
-from .start_sim import checked_sections, load_torque, notch_resistances_ohm, simulate_start
+from .grading import checked_sections, notch_resistances_ohm
+from .start_sim import load_torque, simulate_start
 
 __all__ = ["WorstCase", "sweep_corners", "MAX_CORNERS"]
 
