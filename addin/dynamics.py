@@ -32,7 +32,7 @@ from formulas.worst_case import sweep_corners
 from .cells import (
     cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,
 )
-from .starters import MOTOR_KINDS, _compound_motor, _series_curve
+from .starters import MOTOR_KINDS, compound_motor_from_cells, series_curve_from_cells
 
 __all__ = ["NW_START_SIM", "NW_START_HISTORY", "NW_SECTION_HEATING", "NW_WORST_CASE"]
 
@@ -89,9 +89,9 @@ def motor_from_cells(motor, mag_curve):
     if kind == "shunt":
         machine = ShuntMotor(values["r_motor"], values["k_phi"])
     elif kind == "series":
-        machine = SeriesMotor(values["r_motor"], _series_curve(mag_curve, values["mag_speed"]))
+        machine = SeriesMotor(values["r_motor"], series_curve_from_cells(mag_curve, values["mag_speed"]))
     else:
-        machine = _compound_motor(values["r_motor"], mag_curve, values["shunt_at"], values["series_turns"], values["mag_speed"])
+        machine = compound_motor_from_cells(values["r_motor"], mag_curve, values["shunt_at"], values["series_turns"], values["mag_speed"])
     drop = optional_number("brush_drop", given.get("brush_drop"), 0.0, "V")
     return machine, values["v_supply"], drop, values["l_circuit"], values["inertia"]
 

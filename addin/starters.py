@@ -55,7 +55,8 @@ _DOC = {
 _GRADING_DOCS = {name: _DOC[name] for name in ("v_supply", "i_peak", "i_switch", "notches", "brush_drop", "headers")}
 
 
-def _series_curve(mag_curve, mag_speed=None, optional=False):
+def series_curve_from_cells(mag_curve, mag_speed=None, optional=False):
+    """A series motor's magnetization curve from its range; also used by the start-in-time cells."""
     rows = table("mag_curve", mag_curve, ("current", "EMF"), ("A", "V"), min_rows=2, optional=optional)
     if rows is None:
         return None
@@ -63,7 +64,8 @@ def _series_curve(mag_curve, mag_speed=None, optional=False):
     return magnetization_curve(rows[:, 0], rows[:, 1], speed)
 
 
-def _compound_motor(r_motor, mag_curve, shunt_at, series_turns, mag_speed=None):
+def compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns, mag_speed=None):
+    """A compound motor from its cells; also used by the start-in-time cells."""
     rows = table("mag_curve", mag_curve, ("ampere-turns", "EMF"), ("A", "V"), min_rows=2)
     speed = None if mag_speed is None else number("mag_speed", mag_speed, "rpm")
     curve = magnetization_curve(rows[:, 0], rows[:, 1], speed, excitation_name="ampere-turns")
@@ -115,7 +117,7 @@ def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_d
 )
 def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC series motor, flux following current on its magnetization curve: one row per notch."""
-    motor = SeriesMotor(number("r_motor", r_motor, "ohm"), _series_curve(mag_curve, optional=True))
+    motor = SeriesMotor(number("r_motor", r_motor, "ohm"), series_curve_from_cells(mag_curve, optional=True))
     return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
@@ -131,7 +133,7 @@ def NW_GRADE_COMPOUND(
     v_supply, r_motor, i_peak, i_switch, mag_curve, shunt_at, series_turns, notches=None, brush_drop=None, headers=None
 ):
     """Graded starter sections of a cumulative compound DC motor, flux from shunt plus series ampere-turns: one row per notch."""
-    motor = _compound_motor(r_motor, mag_curve, shunt_at, series_turns)
+    motor = compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns)
     return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
@@ -169,9 +171,9 @@ def NW_CHECK_SECTIONS(
     if chosen == "shunt":
         motor = _shunt_motor(number("r_motor", r_motor, "ohm"))
     elif chosen == "series":
-        motor = SeriesMotor(number("r_motor", r_motor, "ohm"), _series_curve(mag_curve, optional=True))
+        motor = SeriesMotor(number("r_motor", r_motor, "ohm"), series_curve_from_cells(mag_curve, optional=True))
     else:
-        motor = _compound_motor(r_motor, mag_curve, shunt_at, series_turns)
+        motor = compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns)
     result = check_sections(
         motor,
         number("v_supply", v_supply, "V"),
@@ -197,7 +199,7 @@ def NW_CHECK_SECTIONS(
 )
 def NW_SERIES_SPEED(v_supply, r_circuit, current, mag_curve, mag_speed, brush_drop=None):
     """Speed of a DC series motor carrying a given current, from its magnetization curve [rpm]."""
-    motor = SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed))
+    motor = SeriesMotor(number("r_circuit", r_circuit, "ohm"), series_curve_from_cells(mag_curve, mag_speed))
     v = number("v_supply", v_supply, "V")
     drop = optional_number("brush_drop", brush_drop, 0.0, "V")
     return each("current", current, "A", lambda i_a: float(steady_speed_rpm(motor, v, i_a, 0.0, drop)))
@@ -211,7 +213,7 @@ def NW_SERIES_SPEED(v_supply, r_circuit, current, mag_curve, mag_speed, brush_dr
 )
 def NW_SERIES_TORQUE(current, mag_curve, mag_speed):
     """Developed torque of a DC series motor at a given current, from its magnetization curve [N·m]."""
-    motor = SeriesMotor(1.0, _series_curve(mag_curve, mag_speed))
+    motor = SeriesMotor(1.0, series_curve_from_cells(mag_curve, mag_speed))
     return each("current", current, "A", lambda i_a: float(developed_torque_nm(motor, i_a)))
 
 
@@ -227,7 +229,7 @@ def NW_SERIES_TORQUE(current, mag_curve, mag_speed):
 def NW_SERIES_MIN_LOAD(v_supply, r_circuit, n_max, mag_curve, mag_speed, brush_drop=None):
     """Least armature current [A] and developed torque [N·m] that hold a series motor at or below n_max: one row."""
     result = minimum_load(
-        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), series_curve_from_cells(mag_curve, mag_speed)),
         number("v_supply", v_supply, "V"),
         number("n_max", n_max, "rpm"),
         0.0,
@@ -247,7 +249,7 @@ def NW_SERIES_MIN_LOAD(v_supply, r_circuit, n_max, mag_curve, mag_speed, brush_d
 def NW_SERIES_RESIDUAL_SPEED(v_supply, r_circuit, mag_curve, mag_speed, brush_drop=None):
     """Speed a series motor would reach unloaded on its residual flux alone, a runaway warning figure [rpm]."""
     speed = residual_speed_rpm(
-        SeriesMotor(number("r_circuit", r_circuit, "ohm"), _series_curve(mag_curve, mag_speed)),
+        SeriesMotor(number("r_circuit", r_circuit, "ohm"), series_curve_from_cells(mag_curve, mag_speed)),
         number("v_supply", v_supply, "V"),
         optional_number("brush_drop", brush_drop, 0.0, "V"),
     )

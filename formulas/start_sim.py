@@ -256,6 +256,7 @@ class StartResult:
 
 
 def _motor_torque_nm(motor, i_a):
+    """dc_motor.developed_torque_nm without its argument checks: these currents are the solver's own. [N·m]"""
     return torque_nm(motor.k_phi(i_a), i_a)
 
 
