@@ -23,7 +23,7 @@ import math
 import numpy as np
 import xlwings as xw
 
-from formulas.errors import DesignError, InputError, InputTypeError, as_float, choose
+from notchwise.formulas.errors import DesignError, InputError, InputTypeError, as_float, choose
 
 __all__ = [
     "ERROR_PREFIX",

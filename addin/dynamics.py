@@ -23,11 +23,11 @@ from __future__ import annotations
 
 import math
 
-from formulas.dc_motor import SeriesMotor, ShuntMotor
-from formulas.errors import InputError
-from formulas.resistors import ALLOYS, cold_hot_start, rise_verdict, section_duty
-from formulas.start_sim import simulate_start, start_history
-from formulas.worst_case import sweep_corners
+from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor
+from notchwise.formulas.errors import InputError
+from notchwise.formulas.resistors import ALLOYS, cold_hot_start, rise_verdict, section_duty
+from notchwise.formulas.start_sim import simulate_start, start_history
+from notchwise.formulas.worst_case import sweep_corners
 
 from .cells import (
     cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import math
 
-from formulas.current_transformers import ct_primary_a, ct_ratio
-from formulas.protection import (
+from notchwise.formulas.current_transformers import ct_primary_a, ct_ratio
+from notchwise.formulas.protection import (
     CTI_S,
     HIGHSET_MARGIN,
     MULTIPLIER_STEP,
@@ -16,14 +16,14 @@ from formulas.protection import (
     propose_settings,
     ride_through,
 )
-from formulas.relays import (
+from notchwise.formulas.relays import (
     curve_named,
     current_for_time_a,
     multiplier_for_time,
     operate_time_s,
     reset_time_s,
 )
-from formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
+from notchwise.formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
 
 from . import CAUTION
 from .cells import at_once, cell_function, each, flag, number, optional_number, spill, table

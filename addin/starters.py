@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from formulas.dc_motor import (
+from notchwise.formulas.dc_motor import (
     CompoundMotor,
     SeriesMotor,
     ShuntMotor,
@@ -15,8 +15,8 @@ from formulas.dc_motor import (
     residual_speed_rpm,
     steady_speed_rpm,
 )
-from formulas.errors import require_non_negative, require_positive
-from formulas.grading import check_sections, grade_uniform
+from notchwise.formulas.errors import require_non_negative, require_positive
+from notchwise.formulas.grading import check_sections, grade_uniform
 
 from .cells import cell_function, each, flag, number, optional_count, optional_number, option, spill, table, column
 

@@ -1,4 +1,4 @@
-"""Every Notchwise spreadsheet function, for xlwings' "UDF Modules" setting (``addin.udfs``).
+"""Every Notchwise spreadsheet function, for xlwings' "UDF Modules" setting (``notchwise.addin.udfs``).
 
 The functions live in one module per subject; this module gathers them so that
 xlwings' "Import Functions" finds them all in one place.

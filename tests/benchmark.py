@@ -12,15 +12,15 @@ import timeit
 
 import numpy as np
 
-from addin import udfs
-from addin.audit import audit_bytes
-from formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
-from formulas.grading import check_sections, grade_uniform
-from formulas.protection import ride_through
-from formulas.relays import CURVES, operate_time_s
-from formulas.thermal import thermal_element
-from formulas.start_sim import simulate_start
-from formulas.worst_case import sweep_corners
+from notchwise.addin import udfs
+from notchwise.workbooks.audit import audit_bytes
+from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
+from notchwise.formulas.grading import check_sections, grade_uniform
+from notchwise.formulas.protection import ride_through
+from notchwise.formulas.relays import CURVES, operate_time_s
+from notchwise.formulas.thermal import thermal_element
+from notchwise.formulas.start_sim import simulate_start
+from notchwise.formulas.worst_case import sweep_corners
 
 CURVE_ROWS = [[0.0, 6.0], [40.0, 62.0], [80.0, 112.0], [120.0, 150.0], [160.0, 178.0], [220.0, 205.0],
               [300.0, 228.0], [400.0, 246.0], [500.0, 258.0]]

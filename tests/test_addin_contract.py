@@ -1,6 +1,6 @@
 """The spreadsheet contract: what Excel, through xlwings, needs of every function.
 
-Each function of ``addin.udfs`` is registered under xlwings' real decorators,
+Each function of ``notchwise.addin.udfs`` is registered under xlwings' real decorators,
 has its VBA wrapper written by xlwings' own writer (as "Import Functions" does),
 and is called through xlwings' own converters with the raw values Excel passes:
 floats, text, booleans, None for a blank, tuples of rows for a range, and the
@@ -98,13 +98,13 @@ def test_xlwings_writes_a_vba_wrapper_excel_can_import(excel):
     udfs, xlwings_udfs, _ = excel
     book = type("Book", (), {"Name": "notchwise-reference.xlsm"})()
     out = io.StringIO()
-    xlwings_udfs.generate_vba_wrapper("addin.udfs", udfs, out, book)
+    xlwings_udfs.generate_vba_wrapper("notchwise.addin.udfs", udfs, out, book)
     vba = out.getvalue()
     for func in functions(udfs):
         params = inspect.signature(func).parameters.values()
         wanted = ", ".join(("Optional " if p.default is not p.empty else "") + p.name for p in params)
         assert f"Function {func.__name__}({wanted})" in vba
-        assert f'XLPy.CallUDF("addin.udfs", "{func.__name__}"' in vba
+        assert f'XLPy.CallUDF("notchwise.addin.udfs", "{func.__name__}"' in vba
     assert all(len(line) <= 1024 for line in vba.splitlines()), "VBA lines are limited to 1024 characters"
 
 
@@ -210,9 +210,9 @@ def test_blank_optional_in_the_middle_means_its_default(excel):
     ids=["one cell", "a row", "a column"],
 )
 def test_cell_values_are_shaped_as_xlwings_converts_them(excel, currents):
-    # The reference workbook and the audit call functions without Excel (addin.cells.call_with_cells);
+    # The reference workbook and the audit call functions without Excel (notchwise.addin.cells.call_with_cells);
     # xlwings' own converters are the reference for how a range reaches each argument.
-    from addin.cells import call_with_cells
+    from notchwise.addin.cells import call_with_cells
 
     udfs, _, conversion = excel
     func = udfs.NW_SERIES_TORQUE
@@ -232,7 +232,7 @@ def test_readme_lists_every_function_with_its_arguments():
     """The README's function tables are the designer's reference: every function, every argument, in order."""
     from pathlib import Path
 
-    import addin.udfs as plain
+    import notchwise.addin.udfs as plain
 
     readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
     listed = dict(re.findall(r"`(NW_[A-Z0-9_]+)\(([^)]*)\)`", readme))

@@ -18,8 +18,9 @@ import xlsxwriter
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from addin import CAUTION, audit
-from addin.cli import main
+from notchwise.addin import CAUTION
+from notchwise.workbooks import audit
+from notchwise.workbooks.cli import main
 from tests import workbook_files as wf
 
 SMALL = wf.torque_workbook([50.0, 150.0])

@@ -7,8 +7,8 @@ import math
 import numpy as np
 import pytest
 
-from addin.cells import ERROR_PREFIX, column, each, flag, guard, spill, table
-from formulas.errors import InputError, InputTypeError
+from notchwise.addin.cells import ERROR_PREFIX, column, each, flag, guard, spill, table
+from notchwise.formulas.errors import InputError, InputTypeError
 
 
 def test_table_skips_a_text_header_and_trailing_blank_rows():

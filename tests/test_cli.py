@@ -2,8 +2,8 @@
 
 from __future__ import annotations
 
-from addin import CAUTION
-from addin.cli import main
+from notchwise.addin import CAUTION
+from notchwise.workbooks.cli import main
 
 
 def test_demo_prints_the_graded_tables_and_the_caution(capsys, tmp_path, monkeypatch):

@@ -7,9 +7,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from addin import udfs
-from formulas.current_transformers import MAX_PRIMARY_A, MIN_PRIMARY_A, ct_primary_a, ct_ratio
-from formulas.errors import InputError, InputTypeError
+from notchwise.addin import udfs
+from notchwise.formulas.current_transformers import MAX_PRIMARY_A, MIN_PRIMARY_A, ct_primary_a, ct_ratio
+from notchwise.formulas.errors import InputError, InputTypeError
 
 #: IEC 61869-2:2012, 5.201: 10, 12.5, 15, 20, 25, 30, 40, 50, 60, 75 A and their decimal multiples or fractions.
 SERIES = (10.0, 12.5, 15.0, 20.0, 25.0, 30.0, 40.0, 50.0, 60.0, 75.0)

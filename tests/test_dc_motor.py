@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 from scipy.interpolate import PchipInterpolator
 from scipy.optimize import root_scalar
 
-from formulas.dc_motor import (
+from notchwise.formulas.dc_motor import (
     CompoundMotor,
     SeriesMotor,
     back_emf_v,
@@ -23,7 +23,7 @@ from formulas.dc_motor import (
     steady_speed_rpm,
     torque_nm,
 )
-from formulas.errors import DesignError, InputError, InputTypeError
+from notchwise.formulas.errors import DesignError, InputError, InputTypeError
 
 # Table of our own making: EMF [V] at 1000 rpm against current [A], with residual flux.
 I_TABLE = np.array([0.0, 50.0, 100.0, 200.0, 300.0, 400.0, 600.0])

@@ -7,7 +7,7 @@ import sys
 
 import pytest
 
-from addin.cli import main
+from notchwise.workbooks.cli import main
 
 
 @pytest.mark.parametrize("case", ["hoist", "conveyor"])
@@ -20,7 +20,7 @@ def test_diagram_writes_a_png(tmp_path, case, capsys):
 
 def test_the_diagram_module_does_not_import_matplotlib():
     # matplotlib is imported inside run(); (xlwings, loaded by the other subcommands, imports it on its own)
-    code = "import sys, addin.diagram; print('matplotlib' in sys.modules)"
+    code = "import sys, notchwise.workbooks.diagram; print('matplotlib' in sys.modules)"
     assert subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True).stdout.strip() == "False"
 
 

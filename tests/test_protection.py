@@ -17,11 +17,11 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from addin import udfs
-from formulas.errors import DesignError, InputError, InputTypeError
-from formulas.protection import START_MARGIN, STALL_MARGIN, coordinate_upstream, propose_settings, ride_through
-from formulas.relays import CURVES, operate_progress, operate_time_s
-from formulas.thermal import thermal_element, thermal_trip_time_s
+from notchwise.addin import udfs
+from notchwise.formulas.errors import DesignError, InputError, InputTypeError
+from notchwise.formulas.protection import START_MARGIN, STALL_MARGIN, coordinate_upstream, propose_settings, ride_through
+from notchwise.formulas.relays import CURVES, operate_progress, operate_time_s
+from notchwise.formulas.thermal import thermal_element, thermal_trip_time_s
 
 VI = CURVES["IEC VI"]
 THERMAL = thermal_element(100.0, 1.05, 900.0)

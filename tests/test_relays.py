@@ -18,9 +18,9 @@ import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from addin import udfs
-from formulas.errors import DesignError, InputError, InputTypeError
-from formulas.relays import (
+from notchwise.addin import udfs
+from notchwise.formulas.errors import DesignError, InputError, InputTypeError
+from notchwise.formulas.relays import (
     CURVE_NAMES,
     CURVES,
     curve_named,

@@ -7,9 +7,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from formulas.dc_motor import ShuntMotor
-from formulas.errors import DesignError, InputError
-from formulas.resistors import (
+from notchwise.formulas.dc_motor import ShuntMotor
+from notchwise.formulas.errors import DesignError, InputError
+from notchwise.formulas.resistors import (
     ALLOYS,
     TEMPERATURE_RISE_LIMITS_K,
     adiabatic_rise_k,
@@ -19,7 +19,7 @@ from formulas.resistors import (
     section_duty,
     section_energy_j,
 )
-from formulas.start_sim import simulate_start, start_history
+from notchwise.formulas.start_sim import simulate_start, start_history
 
 MOTOR = ShuntMotor(0.1, 0.4)
 SECTIONS = [1.0, 0.5, 0.25]

@@ -14,11 +14,11 @@ from hypothesis import strategies as st
 from scipy import signal
 from scipy.integrate import solve_ivp
 
-from formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
-from formulas.dc_motor import SeriesMotor, ShuntMotor, magnetization_curve
-from formulas.errors import DesignError, InputError
-from formulas.grading import grade_uniform
-from formulas.start_sim import load_torque, simulate_start, start_history
+from notchwise.formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
+from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, magnetization_curve
+from notchwise.formulas.errors import DesignError, InputError
+from notchwise.formulas.grading import grade_uniform
+from notchwise.formulas.start_sim import load_torque, simulate_start, start_history
 
 SHUNT = ShuntMotor(0.1, 0.4)
 V, VB = 440.0, 2.0
@@ -286,7 +286,7 @@ def test_a_stall_names_its_notch_and_the_dynamics_confirm_it():
 
 
 def test_compound_start_balances_and_tends_to_the_grading_table():
-    from formulas.dc_motor import CompoundMotor
+    from notchwise.formulas.dc_motor import CompoundMotor
 
     curve = magnetization_curve([0, 1000, 3000, 6000, 9000], [0, 100, 200, 260, 290], 800.0, "ampere-turns")
     motor = CompoundMotor(0.08, curve, 1500.0, 10.0)

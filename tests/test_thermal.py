@@ -17,9 +17,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.integrate import solve_ivp
 
-from addin import udfs
-from formulas.errors import InputError, InputTypeError
-from formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
+from notchwise.addin import udfs
+from notchwise.formulas.errors import InputError, InputTypeError
+from notchwise.formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
 
 ELEMENT = thermal_element(100.0, 1.05, 600.0)
 

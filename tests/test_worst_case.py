@@ -5,11 +5,11 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from formulas.dc_motor import ShuntMotor
-from formulas.errors import DesignError, InputError
-from formulas.resistors import ALLOYS
-from formulas.start_sim import simulate_start
-from formulas.worst_case import sweep_corners
+from notchwise.formulas.dc_motor import ShuntMotor
+from notchwise.formulas.errors import DesignError, InputError
+from notchwise.formulas.resistors import ALLOYS
+from notchwise.formulas.start_sim import simulate_start
+from notchwise.formulas.worst_case import sweep_corners
 
 MOTOR = ShuntMotor(0.1, 0.4)
 SECTIONS = np.array([1.0, 0.5, 0.25])

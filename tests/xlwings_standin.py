@@ -42,10 +42,10 @@ class _TimeType:
 
 
 @contextlib.contextmanager
-def real_xlwings(addin_modules=("addin.cells", "addin.udfs")):
+def real_xlwings(addin_modules=("notchwise.addin.cells", "notchwise.addin.udfs")):
     """Within the block, ``xlwings.func/arg/ret`` are the real Windows decorators.
 
-    Yields ``(udfs_module, xlwings_udfs, conversion)``: our ``addin.udfs``
+    Yields ``(udfs_module, xlwings_udfs, conversion)``: our ``notchwise.addin.udfs``
     freshly imported under those decorators, ``xlwings.udfs`` and
     ``xlwings.conversion`` with an Excel engine registered.
     """
@@ -67,9 +67,9 @@ def real_xlwings(addin_modules=("addin.cells", "addin.udfs")):
         if "excel" not in xlwings.engines.engines_by_name:
             xlwings.engines.add(Engine(impl=windows.engine))
         xlwings.func, xlwings.arg, xlwings.ret = xlwings_udfs.xlfunc, xlwings_udfs.xlarg, xlwings_udfs.xlret
-        for name in [m for m in sys.modules if m == "addin" or m.startswith("addin.")]:
+        for name in [m for m in sys.modules if m == "notchwise.addin" or m.startswith("notchwise.addin.")]:
             del sys.modules[name]
-        udfs = importlib.import_module("addin.udfs")
+        udfs = importlib.import_module("notchwise.addin.udfs")
         yield udfs, xlwings_udfs, importlib.import_module("xlwings.conversion")
     finally:
         for name, value in saved_decorators.items():

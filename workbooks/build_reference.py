@@ -1,10 +1,10 @@
 """Build the Notchwise reference workbook from a declarative description of its sheets.
 
-Run ``python -m workbooks.build_reference [PATH]`` (or ``notchwise demo``); the
+Run ``python -m notchwise.workbooks.build_reference [PATH]`` (or ``notchwise demo``); the
 committed ``workbooks/notchwise-reference.xlsx`` is what it writes.
 
 Each sheet is a list of named inputs (a value or a table, with units) and of
-results: a call of one ``NW_`` function of :mod:`addin.udfs` by name, with its
+results: a call of one ``NW_`` function of :mod:`notchwise.addin.udfs` by name, with its
 arguments given as defined names of inputs, literals, or ``None`` for a
 skipped optional argument. A sweep calls a function once per cell of an input
 column, and may carry a native scatter chart drawn from its cells. Adding a
@@ -25,9 +25,9 @@ from pathlib import Path
 import xlsxwriter
 from xlsxwriter.utility import xl_cell_to_rowcol, xl_range_abs, xl_rowcol_to_cell
 
-from addin import CAUTION, udfs
-from addin.cells import call_with_cells
-from workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START
+from notchwise.addin import CAUTION, udfs
+from notchwise.addin.cells import call_with_cells
+from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START
 
 __all__ = [
     "Input", "Table", "Link", "Literal", "Result", "Part", "Sweep", "Chart", "Sheet", "Computed", "SHEETS", "build",
@@ -47,26 +47,26 @@ EACH = object()  # in a sweep's arguments: the input cell of the row
 
 FUNCTION_BASIS = {
     "grading": (
-        "Uniform current-limit grading (formulas.grading): M. G. Say and E. O. Taylor, Direct Current "
+        "Uniform current-limit grading (notchwise.formulas.grading): M. G. Say and E. O. Taylor, Direct Current "
         "Machines, 2nd ed., Pitman, 1986, starting and speed control; A. E. Fitzgerald, C. Kingsley Jr., "
         "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.6."
     ),
     "start": (
-        "Time-domain start L di/dt = V - Vb - R i - kΦ(i) n, J dω/dt = T - T_load (formulas.start_sim), closed "
+        "Time-domain start L di/dt = V - Vb - R i - kΦ(i) n, J dω/dt = T - T_load (notchwise.formulas.start_sim), closed "
         "form for the shunt motor, Radau otherwise: A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, Electric "
         "Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.9; E. Hairer and G. Wanner, Solving Ordinary "
         "Differential Equations II, 2nd ed., Springer, 1996 (Radau IIA)."
     ),
     "heating": (
         "Section energy, r.m.s. duty, adiabatic rise m·c·ΔT = E and R(θ) = R20(1 + α(θ - 20 °C)) "
-        "(formulas.resistors); alloy data and the IEEE Std 32 rise limits from memory, see formulas/resistors.py."
+        "(notchwise.formulas.resistors); alloy data and the IEEE Std 32 rise limits from memory, see formulas/resistors.py."
     ),
     "relay": (
-        "Inverse-time elements t = m(k/(M^α - 1) + c) (formulas.relays): IEC 60255-151:2009, Table 1; "
+        "Inverse-time elements t = m(k/(M^α - 1) + c) (notchwise.formulas.relays): IEC 60255-151:2009, Table 1; "
         "IEEE Std C37.112-1996, Table 1; operate progress Σ dt/t(I); thermal element IEC 60255-149."
     ),
     "machine": (
-        "DC machine laws E = kΦn, T = (60/2π)kΦI, V = E + IR + Vb (formulas.dc_motor): A. E. Fitzgerald, "
+        "DC machine laws E = kΦn, T = (60/2π)kΦI, V = E + IR + Vb (notchwise.formulas.dc_motor): A. E. Fitzgerald, "
         "C. Kingsley Jr., S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, ch. 7, Eqs. 7.1-7.8; "
         "curve between points: F. N. Fritsch and R. E. Carlson, SIAM J. Numer. Anal., vol. 17, no. 2, 1980."
     ),
@@ -437,7 +437,7 @@ HOW_TO_GO_LIVE = (
     "1. Install Python with Notchwise (pip install notchwise, or pip install -e . in its source folder) "
     "and the xlwings add-in (xlwings addin install).",
     "2. Save this workbook as an Excel macro-enabled workbook (.xlsm).",
-    "3. On the xlwings ribbon tab set Interpreter to that Python, UDF Modules to addin.udfs, "
+    "3. On the xlwings ribbon tab set Interpreter to that Python, UDF Modules to notchwise.addin.udfs, "
     "then click Import Functions.",
     "4. Press Ctrl+Alt+F9 to recalculate every formula with the live functions.",
     "Without the add-in, editing an input turns the cells that depend on it into #NAME?.",

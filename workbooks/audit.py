@@ -10,7 +10,7 @@ written to a temporary file beside its target and moved into place.
 
 A cell is recomputed when its formula is one call ``=NW_NAME(arg, ...)`` whose
 arguments are cell or range references (other sheets too), defined names or
-literals; the function is looked up by name in :mod:`addin.udfs` and called
+literals; the function is looked up by name in :mod:`notchwise.addin.udfs` and called
 with the saved values as Excel hands them over. Any other formula that calls
 an NW_ function is listed as not recomputed, with the reason.
 """
@@ -42,8 +42,8 @@ from openpyxl.formula.tokenizer import TokenizerError
 from openpyxl.utils.cell import get_column_letter, range_boundaries
 from openpyxl.worksheet._reader import WorkSheetParser
 
-from . import CAUTION, udfs
-from .cells import call_with_cells
+from notchwise.addin import CAUTION, udfs
+from notchwise.addin.cells import call_with_cells
 
 __all__ = [
     "add_parser",

@@ -10,12 +10,12 @@ from __future__ import annotations
 
 import numpy as np
 
-from formulas.dc_motor import SeriesMotor, ShuntMotor, k_phi_from_rating, magnetization_curve, steady_speed_rpm
-from formulas.grading import grade_uniform, notch_resistances_ohm
-from formulas.start_sim import simulate_start, start_history
-from workbooks.demo_cases import CONVEYOR, HOIST
+from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, k_phi_from_rating, magnetization_curve, steady_speed_rpm
+from notchwise.formulas.grading import grade_uniform, notch_resistances_ohm
+from notchwise.formulas.start_sim import simulate_start, start_history
+from notchwise.workbooks.demo_cases import CONVEYOR, HOIST
 
-from . import CAUTION
+from notchwise.addin import CAUTION
 
 __all__ = ["add_parser", "run", "demo_start"]
 

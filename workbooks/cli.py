@@ -10,7 +10,9 @@ from __future__ import annotations
 import argparse
 import sys
 
-from . import CAUTION, audit, demo, diagram
+from notchwise.addin import CAUTION
+
+from . import audit, demo, diagram
 
 __all__ = ["main"]
 

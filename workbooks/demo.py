@@ -7,9 +7,9 @@ from pathlib import Path
 
 from xlsxwriter.exceptions import FileCreateError
 
-from workbooks.build_reference import SERIES_WARNING, build
+from notchwise.workbooks.build_reference import SERIES_WARNING, build
 
-from . import CAUTION
+from notchwise.addin import CAUTION
 
 __all__ = ["add_parser", "run", "format_table", "DEFAULT_OUT"]
 
