@@ -63,6 +63,7 @@ __all__ = [
     "circuit_resistance_ohm",
     "steady_speed_rpm",
     "developed_torque_nm",
+    "series_torque_nm",
     "residual_speed_rpm",
     "MinimumLoad",
     "minimum_load",
@@ -539,9 +540,7 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
     r = circuit_resistance_ohm(motor, r_external_ohm)
-    i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
-    if np.any(i < 0.0):
-        raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
+    i = _currents(i_a)
     i_stall = v / r
     if np.any(i > i_stall):
         raise InputError(
@@ -566,10 +565,35 @@ def developed_torque_nm(motor, i_a):
     float or numpy.ndarray
         Developed torque :math:`T = \frac{60}{2\pi} k\Phi(I)\,I`. [N·m]
     """
+    return np.asarray(motor.torque_nm(_currents(i_a)))[()]
+
+
+def series_torque_nm(curve: MagnetizationCurve, i_a):
+    r"""Developed torque of a series motor from its magnetization curve alone.
+
+    Parameters
+    ----------
+    curve : MagnetizationCurve
+        EMF against armature current, with the speed it was measured at.
+    i_a : float or array_like
+        Armature current, at or above zero. [A]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        :math:`T = \frac{60}{2\pi} \frac{E_{mag}(I)}{n_{mag}} I`; the series
+        resistance does not enter. [N·m]
+    """
+    i = _currents(i_a)
+    return np.asarray(torque_nm(_checked_curve(curve, "series").k_phi_at(i), i))[()]  # Eqs. 7.1, 7.7 of [1]
+
+
+def _currents(i_a) -> np.ndarray:
+    """Armature currents as an array of the input's shape, each at or above zero. [A]"""
     i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
     if np.any(i < 0.0):
         raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
-    return np.asarray(motor.torque_nm(i))[()]
+    return i
 
 
 def residual_speed_rpm(motor, v_supply_v: float, brush_drop_v: float = 0.0) -> float:
