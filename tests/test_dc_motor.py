@@ -145,7 +145,7 @@ def test_speed_limits_are_named():
         steady_speed_rpm(HOIST, 230.0, -1.0)
     with pytest.raises(InputError, match="beyond it: extend the curve"):
         steady_speed_rpm(SeriesMotor(0.01, CURVE), 230.0, 800.0)
-    with pytest.raises(InputError, match="mag_speed is needed"):
+    with pytest.raises(InputError, match="has no speed_rpm"):
         steady_speed_rpm(SeriesMotor(0.06, magnetization_curve(I_TABLE, E_TABLE)), 230.0, 100.0)
     with pytest.raises(InputError, match="brush_drop .* must be below v_supply"):
         steady_speed_rpm(HOIST, 2.0, 1.0, 0.0, 2.0)
