@@ -34,7 +34,7 @@ def shunt_start(l_h=0.004, j=6.0, load=400.0, **switching):
 
 
 # -- zero-inductance limit: the grading table (Say & Taylor, Direct Current Machines, 2nd ed., 1986,
-#    graded starter; Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003, sec. 7.6) --------
+#    chapter on starting, from memory; Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003, sec. 7.6) --------
 
 
 def test_shunt_peaks_tend_to_the_grading_table_as_inductance_vanishes():
@@ -187,7 +187,7 @@ def test_momentum_balance_of_the_notches_in_motion():
 def test_constant_torque_dwell_against_the_first_order_mechanical_law():
     # With L -> 0 a shunt notch is first order in speed: J dw/dt = T - T_L with T linear in speed gives
     # t_k = tau_k ln((I1 - IL)/(I2 - IL)), tau_k = R_k J / ((60/2pi)^2 K^2)
-    # (Say & Taylor, Direct Current Machines, 2nd ed., 1986, starting: time on each notch).
+    # (Say & Taylor, Direct Current Machines, 2nd ed., 1986, time on each notch: chapter from memory).
     grading, result = shunt_start(l_h=1e-7, j=6.0, load=400.0)
     k = SHUNT.k_phi_v_per_rpm
     i_load = 400.0 / (C1 * k)

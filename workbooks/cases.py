@@ -16,7 +16,7 @@ __all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS"]
 FUNCTION_BASIS = {
     "grading": (
         "Uniform current-limit grading (notchwise.formulas.grading): M. G. Say and E. O. Taylor, Direct Current "
-        "Machines, 2nd ed., Pitman, 1986, starting and speed control; A. E. Fitzgerald, C. Kingsley Jr., "
+        "Machines, 2nd ed., Pitman, 1986, chapter on starting (from memory); A. E. Fitzgerald, C. Kingsley Jr., "
         "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.6."
     ),
     "start": (
