@@ -8,7 +8,7 @@ sheet to ``SHEETS``: no new code.
 from __future__ import annotations
 
 from notchwise.addin import SERIES_WARNING
-from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START
+from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START, STARTS
 from notchwise.workbooks.schema import EACH, Chart, Input, Link, Literal, Part, Result, Sheet, Sweep, Table
 
 __all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS"]
@@ -163,7 +163,7 @@ def _contractor_sheet() -> Sheet:
 
 
 def _hoist_start_sheet() -> Sheet:
-    h, d = HOIST.inputs, HOIST_START.inputs
+    h, d = (case.inputs for case in STARTS[HOIST.key])  # the pair notchwise diagram draws too
     start = ("hoist_motor", "hoist_sections", "hoist_load_torque", "hoist_i_cut")
     return Sheet(
         name="Hoist start",

@@ -2,7 +2,7 @@
 
 All motor data here are made up for the demonstration; they are no
 manufacturer's figures and no textbook problem. They are used by
-``notchwise demo`` and by the reference workbook, never as test references.
+``notchwise demo``, ``notchwise diagram`` and the reference workbook, never as test references.
 """
 
 from __future__ import annotations

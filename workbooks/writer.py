@@ -23,7 +23,7 @@ __all__ = ["BUILT", "CALC_ID", "write_workbook"]
 BUILT = dt.datetime(2026, 1, 5, 9, 0, 0)
 #: Calculation engine id written in the file. Excel recalculates every formula on opening a file whose
 #: id is older than its own (ECMA-376 Part 1, 18.2.2 calcPr); 191029 is that of Excel 2019 and
-#: Microsoft 365 (from memory), so those show the saved figures until the add-in is live.
+#: later versions (from memory), so those show the saved figures until the add-in is live.
 CALC_ID = 191029
 
 #: Palette of this workbook: ink blue headings, sand inputs, mist results.
