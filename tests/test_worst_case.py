@@ -5,14 +5,14 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from notchwise.formulas.dc_motor import ShuntMotor
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.resistors import ALLOYS
 from notchwise.formulas.start_sim import simulate_start
 from notchwise.formulas.worst_case import sweep_corners
+from tests.conftest import TEST_SECTIONS_OHM, TEST_SHUNT
 
-MOTOR = ShuntMotor(0.1, 0.4)
-SECTIONS = np.array([1.0, 0.5, 0.25])
+MOTOR = TEST_SHUNT
+SECTIONS = np.array(TEST_SECTIONS_OHM)
 RISING_LOAD = [[0.0, 250.0], [600.0, 450.0], [1200.0, 700.0]]  # a load stiffening with speed
 
 
