@@ -26,6 +26,7 @@ __all__ = [
     "require_non_negative",
     "require_below",
     "require_count",
+    "require_kind",
     "choose",
 ]
 
@@ -100,7 +101,10 @@ def as_float_array(name: str, values, unit: str = "", min_length: int = 1) -> np
             k = int(np.argmax(bad))
             as_float(f"{name} entry {k + 1}", numbers[k], unit)
     else:
-        flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+        try:
+            flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+        except ValueError:  # rows of unequal length, nested unevenly
+            raise InputError(f"{name} ({shown(values)}) has rows of unequal length; a list of numbers is needed") from None
         numbers = np.array([as_float(f"{name} entry {k + 1}", v, unit) for k, v in enumerate(flat)])
     if numbers.size < min_length:
         raise InputError(f"{name} has {numbers.size} values; at least {min_length} are needed")
@@ -168,6 +172,13 @@ def require_count(name: str, value, low: int, high: int) -> int:
     if not low <= number <= high:
         raise InputError(f"{name} ({number:g}) must be from {low} to {high}")
     return int(number)
+
+
+def require_kind(name: str, value, kind: type, what: str):
+    """Return ``value`` if it is a ``kind``, else refuse it naming ``name`` and ``what`` is wanted."""
+    if not isinstance(value, kind):
+        raise InputTypeError(f"{name} ({shown(value)}) is not {what}")
+    return value
 
 
 def choose(name: str, value, options) -> str:

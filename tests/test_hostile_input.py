@@ -93,6 +93,21 @@ TABLES = st.one_of(
     st.integers(1, 4).flatmap(lambda w: st.lists(st.lists(st.floats(), min_size=w, max_size=w), min_size=1, max_size=8)),
 )
 HOSTILE = st.one_of(SCALARS, TABLES)
+FACTORS = [0.0, -1.0, 1e-300, 1e-12, 1e-6, 0.999, 1.001, 1e6, 1e12, 1e300]
+
+
+def scaled(good, factor: float):
+    """``good`` (a number, or every number of a range) times ``factor``: valid in kind, extreme in size."""
+    if isinstance(good, list):
+        return [scaled(cell, factor) for cell in good]
+    if isinstance(good, (int, float)) and not isinstance(good, bool):
+        return good * factor
+    return good
+
+
+def extreme(good):
+    """A strategy for values of the right kind but extreme size, near ``good``."""
+    return st.one_of(st.sampled_from(FACTORS), st.floats(-1e6, 1e6)).map(lambda f: scaled(good, f))
 
 
 def problems(name: str, args: list) -> list[str]:
@@ -132,8 +147,8 @@ def kind_of(value) -> str:
     return "range"
 
 
-def perturbed(name: str, position: int, value) -> list:
-    args = baseline(name)
+def perturbed(name: str, position: int, value, args: list | None = None) -> list:
+    args = baseline(name) if args is None else list(args)
     args[position] = value
     return args
 
@@ -148,9 +163,13 @@ def test_any_hostile_argument_gives_finite_figures_or_one_short_line(data):
     name = data.draw(st.sampled_from(NAMES), label="function")
     arguments = argument_names(name)
     position = data.draw(st.integers(0, len(arguments) - 1), label="position")
-    value = data.draw(HOSTILE, label="value")
+    good = baseline(name)
+    other = data.draw(st.integers(0, len(arguments) - 1), label="second position")
+    if other != position and data.draw(st.booleans(), label="scale a second argument"):
+        good = perturbed(name, other, data.draw(extreme(good[other]), label="second value"), good)
+    value = data.draw(st.one_of(HOSTILE, extreme(good[position]), st.sampled_from(DEGENERATE_CURVES)), label="value")
     known = KNOWN_ELSEWHERE.get((name, arguments[position], kind_of(value)))
-    found = problems(name, perturbed(name, position, value))
+    found = problems(name, perturbed(name, position, value, good))
     if known and found:
         pytest.xfail(known)
     assert not found, f"{name}({arguments[position]}={value!r:.120}): {found}"
