@@ -107,12 +107,18 @@ def guard(compute, *args, **kwargs):
         name = getattr(compute, "__name__", "a function")
         return _message(f"internal fault in {name} ({type(error).__name__}: {error}); please report it")
     if isinstance(result, (float, np.floating)) and not math.isfinite(result):
-        return _not_finite(result)
+        name = getattr(compute, "__name__", "")
+        return _not_finite(result, name if name.isidentifier() else "the result")
     return result
 
 
-def _not_finite(result: float) -> str:
-    return _message(f"the result is {result}, not a finite figure: the inputs lie where the formula has no finite answer")
+def _no_finite_value(result: float, what: str) -> str:
+    """The words for a figure that is not finite (Excel has no infinite number), naming ``what`` it is."""
+    return f"{what} has no finite value here (the formula gives {result})"
+
+
+def _not_finite(result: float, what: str = "the result") -> str:
+    return _message(f"{_no_finite_value(result, what)}: check the inputs")
 
 
 def _message(text: str) -> str:
@@ -146,7 +152,10 @@ def at_once(name: str, value, unit: str, compute, never: str = ""):
     single = not isinstance(value, (list, tuple))
     values = np.array([number(name, value, unit)]) if single else column(name, value, unit)
     results = np.asarray(compute(values), dtype=float).ravel()
-    cells = [r if math.isfinite(r) else never if (r == math.inf and never) else _not_finite(r) for r in results.tolist()]
+    cells = [
+        r if math.isfinite(r) else never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
+        for k, r in enumerate(results.tolist())
+    ]
     return cells[0] if single else [[c] for c in cells]
 
 
@@ -307,7 +316,7 @@ def _cell(value, label: str = "the result"):
     if isinstance(value, (float, np.floating)) and not math.isfinite(value):
         if math.isnan(value):
             return ""
-        return f"{label} is {'' if value > 0 else 'minus '}infinite: no finite figure"
+        return _no_finite_value(value, label)
     if isinstance(value, np.generic):
         return value.item()
     return value
