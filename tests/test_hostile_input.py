@@ -20,7 +20,7 @@ import math
 import os
 
 import pytest
-from hypothesis import HealthCheck, given, settings
+from hypothesis import HealthCheck, given, reject, settings
 from hypothesis import strategies as st
 
 import notchwise.addin.udfs as udfs
@@ -175,15 +175,17 @@ def test_any_hostile_argument_gives_finite_figures_or_one_short_line(data):
             good = perturbed(name, other, data.draw(extreme(good[other]), label="second value"), good)
             changed.append(arguments[other])
         value = data.draw(st.one_of(HOSTILE, extreme(good[position]), st.sampled_from(DEGENERATE_CURVES)), label="value")
-    check(name, changed, problems(name, perturbed(name, position, value, good)), value)
+    # A known failure elsewhere must not end the search (an xfail would): that example is set aside.
+    check(name, changed, problems(name, perturbed(name, position, value, good)), value, known=lambda where: reject())
 
 
-def check(name: str, changed: list[str], found: list[str], value) -> None:
-    """Fail on any problem, except a known one of a changed argument whose fix belongs to another module (xfail)."""
+def check(name: str, changed: list[str], found: list[str], value, known=pytest.xfail) -> None:
+    """Fail on any problem, except a known one of a changed argument whose fix belongs to another module (``known``)."""
     for argument in changed:
         where, words = KNOWN_ELSEWHERE.get((name, argument), ("", None))
         if found and words is not None and all(words in problem for problem in found):
-            pytest.xfail(where)
+            known(where)
+            return
     assert not found, f"{name}({', '.join(changed)}; {value!r:.120}): {found}"
 
 
