@@ -55,10 +55,12 @@ References
 from __future__ import annotations
 
 import math
+from bisect import bisect_right
 from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
+from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq, minimize_scalar
 
 from .dc_motor import NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, effective_supply_v, torque_nm
@@ -448,6 +450,33 @@ class _Trace:
     n_t_rpm_s: float
 
 
+def _scalar_flux(circuit: _Circuit):
+    """``i -> (kΦ(i), dkΦ/di)`` at one current, fast: the motor's flux for the integrator's many calls.
+
+    A series motor's curve is the monotone piecewise cubic of its table
+    (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`); the same cubic
+    is rebuilt from the table and evaluated by Horner's rule, which gives its
+    exact slope as well. Currents are held within the table.
+    """
+    motor = circuit.motor
+    if circuit.constant_flux:
+        constant = (float(motor.k_phi_v_per_rpm), 0.0)
+        return lambda i: constant
+    curve = motor.curve
+    cubic = PchipInterpolator(curve.excitation, curve.emf_v)
+    breaks, pieces, top = cubic.x.tolist(), (cubic.c / curve.speed_rpm).T.tolist(), curve.max_excitation
+    last = len(pieces) - 1
+
+    def flux_slope(i):
+        i = min(abs(i), top)
+        k = min(bisect_right(breaks, i) - 1, last)
+        c3, c2, c1, c0 = pieces[k]
+        x = i - breaks[k]
+        return ((c3 * x + c2) * x + c1) * x + c0, (3.0 * c3 * x + 2.0 * c2) * x + c1
+
+    return flux_slope
+
+
 def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n_start: float, n_end: float,
                     t_cap: float, rtol: float) -> _Trace:
     """Integrate the braking loop and the shaft from (0 A, n_start) until the speed falls to ``n_end``.
@@ -460,24 +489,7 @@ def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n
     and the peaks of current and speed.
     """
     c1, r, v_loop, dynamic = NM_PER_V_A_PER_RPM, circuit.r_ohm, circuit.v_loop_v, circuit.dynamic
-    motor = circuit.motor
-    if circuit.constant_flux:
-        k_const = float(motor.k_phi_v_per_rpm)
-
-        def flux(i):
-            return k_const
-
-        def flux_slope(i):
-            return 0.0
-    else:
-        i_top, step_i = motor.i_max_a, 1e-6 * motor.i_max_a
-
-        def flux(i):
-            return float(motor.k_phi(min(abs(i), i_top)))
-
-        def flux_slope(i):
-            lo, hi = max(abs(i) - step_i, 0.0), min(abs(i) + step_i, i_top)
-            return (flux(hi) - flux(lo)) / (hi - lo)
+    flux_slope = _scalar_flux(circuit)
     speeds, torques = load.speed_rpm, load.torque_nm
     if load.constant:
         t_const = float(torques[0])
@@ -501,7 +513,7 @@ def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n
         """Flux and the two derivatives at (i, n); the last point is kept for the events that follow a step."""
         key = (i, n)
         if key not in last:
-            k_phi = flux(i)
+            k_phi = flux_slope(i)[0]
             di = (v_loop + k_phi * n - r * i) / l_h
             if dynamic and i <= 0.0 and di < 0.0:
                 di = 0.0  # the current does not reverse through the brushes
@@ -520,7 +532,7 @@ def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n
 
     def jacobian(t, y):
         i, n = y[0], y[1]
-        k_phi, dflux = slopes(i, n)[0], flux_slope(i)
+        k_phi, dflux = flux_slope(i)
         jac = np.zeros((5, 5))
         jac[0, 0], jac[0, 1] = (dflux * n - r) / l_h, k_phi / l_h
         jac[1, 0], jac[1, 1] = -c1 * c1 * (k_phi + dflux * i) / j, -c1 * load_slope(n) / j

@@ -292,3 +292,18 @@ def test_a_signed_load_keeps_its_sign():
     assert braking_load(-120.0).at(500.0) == pytest.approx(-120.0)
     table = braking_load([[0.0, -50.0], [1000.0, 80.0]])
     assert table.at(500.0) == pytest.approx(15.0)
+
+
+def test_the_integrators_fast_flux_is_the_curves_own():
+    # The integrator evaluates the magnetization curve's cubic by Horner's rule; it must equal the curve's
+    # own interpolant (scipy's PchipInterpolator in dc_motor) and give its slope.
+    from notchwise.formulas.braking import _circuit, _scalar_flux
+
+    flux_slope = _scalar_flux(_circuit(SERIES, True, 0.0, 0.5))
+    currents = np.linspace(0.0, CURVE.max_excitation, 997)
+    fast = np.array([flux_slope(i) for i in currents])
+    assert np.allclose(fast[:, 0], SERIES.k_phi(currents), rtol=1e-13, atol=1e-15)
+    h = 1e-5
+    inner = currents[1:-1]
+    difference = (SERIES.k_phi(inner + h) - SERIES.k_phi(inner - h)) / (2 * h)
+    assert np.allclose(fast[1:-1, 1], difference, rtol=1e-5, atol=1e-9)
