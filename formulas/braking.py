@@ -63,9 +63,10 @@ from scipy.integrate import solve_ivp
 from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq, minimize_scalar
 
-from .dc_motor import NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, effective_supply_v, torque_nm
+from .dc_motor import effective_supply_v, torque_nm
 from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
-from .start_sim import LoadTorque, load_torque
+from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
+from .start_load import LoadTorque, load_torque
 
 __all__ = [
     "MODES",
@@ -78,7 +79,6 @@ __all__ = [
     "brake_resistance_ohm",
     "braking_load",
     "BuildUp",
-    "series_build_up",
     "lowering_speed_rpm",
     "StopResult",
     "simulate_stop",
@@ -101,15 +101,14 @@ _SPEED_POINTS = 128
 SHORTEST_STOP_S = 1e-6
 #: The stop may last at most this many times its estimate before it is refused. [-]
 TIME_CAP_FACTOR = 20.0
-RAD_S_PER_RPM = 2.0 * math.pi / 60.0
 
 
 def _kind(motor) -> str:
-    """The motor kind by which modes are offered; the one place that asks a machine its class."""
-    for kind, cls in (("shunt", ShuntMotor), ("series", SeriesMotor), ("compound", CompoundMotor)):
-        if isinstance(motor, cls):
-            return kind
-    raise InputError(f"motor ({type(motor).__name__}) is not a DC motor model")
+    """The machine's kind (``Machine.kind``), by which the modes are offered."""
+    kind = getattr(motor, "kind", None)
+    if kind not in STOP_MODES:
+        raise InputError(f"motor ({type(motor).__name__}) is not a machine model with braking: {', '.join(STOP_MODES)}")
+    return kind
 
 
 def _mode_for(motor, mode, offered: dict, what: str) -> str:
@@ -129,7 +128,7 @@ def brake_resistance_ohm(mode: str, v_supply_v: float, r_armature_ohm: float, e_
     ----------
     mode : {"dynamic", "plugging"}
         Dynamic: armature switched onto the resistor; plugging: armature
-        reversed on the supply through it.
+        reversed on the supply through it. [-]
     v_supply_v : float
         Supply voltage (enters plugging only). [V]
     r_armature_ohm : float
@@ -215,7 +214,8 @@ class _Circuit:
 
     @property
     def constant_flux(self) -> bool:
-        return _kind(self.motor) == "shunt"
+        """True where the flux does not follow the braking current (a shunt or separately excited field)."""
+        return self.motor.flux_constant
 
     def k_phi(self, i_a):
         """Flux at braking current ``i_a``, the curve held at its ends. [V/rpm]"""
@@ -265,10 +265,7 @@ class _Circuit:
 def _circuit(motor, dynamic: bool, v_loop_v: float, r_external_ohm: float) -> _Circuit:
     """The braking loop of ``motor`` with ``r_external_ohm`` outside it, checked."""
     r = require_positive("r_circuit", motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm"), "ohm")
-    if _kind(motor) == "shunt":
-        require_positive("k_phi", motor.k_phi_v_per_rpm, "V/rpm")
-    elif getattr(motor.curve, "speed_rpm", None) is None:
-        raise InputError("mag_curve and mag_speed are needed for braking or lowering of a series motor")
+    motor.require_dynamics()
     return _Circuit(motor, dynamic, v_loop_v, r)
 
 
@@ -289,8 +286,18 @@ class BuildUp:
     i_least_a: float
 
 
-def series_build_up(circuit: _Circuit) -> BuildUp:
+def _series_build_up(circuit: _Circuit) -> BuildUp:
     r"""Critical speed and least build-up current of self-excited series braking.
+
+    Parameters
+    ----------
+    circuit : _Circuit
+        The dynamic-braking loop of a series motor (its resistance and brush drop). [-]
+
+    Returns
+    -------
+    BuildUp
+        Critical speed [rpm] and least build-up current [A].
 
     .. math:: n_c = \frac{R}{\max_i dk\Phi/di}, \qquad I_b: \ k\Phi(I_b)\,n_c = V_b + R\,I_b
 
@@ -317,13 +324,13 @@ def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, 
     Parameters
     ----------
     motor : ShuntMotor or SeriesMotor
-        The machine; a series motor needs its magnetization curve with its speed.
+        The machine; a series motor needs its magnetization curve with its speed. [-]
     r_external_ohm : float
         Braking resistance outside the motor. [ohm]
     lowering_torque_nm : float
         Torque the descending load exerts on the motor shaft, above zero. [N·m]
     mode : {"dynamic"}
-        Armature on the resistor (the wound-rotor modes come with that motor).
+        Armature on the resistor (the wound-rotor modes come with that motor). [-]
     brush_drop_v : float, optional
         Total brush drop. [V]
 
@@ -370,7 +377,7 @@ def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, 
     if not math.isfinite(n) or n > MAX_SPEED_RPM:
         raise DesignError(f"the load is not held: the lowering speed would exceed {quantity(MAX_SPEED_RPM, 'rpm')}")
     if not circuit.constant_flux:
-        build = series_build_up(circuit)
+        build = _series_build_up(circuit)
         if n < build.critical_speed_rpm:
             raise DesignError(
                 f"the series field does not build up at {quantity(t, 'N·m')}: the current "
@@ -604,13 +611,13 @@ def simulate_stop(
     Parameters
     ----------
     motor : ShuntMotor or SeriesMotor
-        The machine; a series motor needs its magnetization curve with its speed.
+        The machine; a series motor needs its magnetization curve with its speed. [-]
     v_supply_v : float
         Supply voltage (plugging drives the current with it). [V]
     r_brake_ohm : float
         Braking resistance outside the motor, at or above zero. [ohm]
     mode : {"dynamic", "plugging"}
-        The braking connection (see the module docstring).
+        The braking connection (see the module docstring). [-]
     l_circuit_h : float
         Inductance of the braking circuit, above zero. [H]
     inertia_kgm2 : float
@@ -669,7 +676,7 @@ def simulate_stop(
 
     build = None
     if not circuit.constant_flux and dynamic:
-        build = series_build_up(circuit)
+        build = _series_build_up(circuit)
         if n_start <= build.critical_speed_rpm:
             raise DesignError(
                 f"the series field cannot build up: at n_start ({quantity(n_start, 'rpm')}) the braking circuit "

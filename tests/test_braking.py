@@ -276,7 +276,7 @@ def test_dynamic_braking_to_standstill_with_nothing_opposing_is_refused():
         (lambda: simulate_stop(SERIES, V, 0.05, "plugging", 0.004, J, 100.0, 900.0), "beyond the end of the magnetization curve"),
         (lambda: lowering_speed_rpm(SHUNT, 0.5, -100.0), "lowering_torque (-100 N·m) must be above zero"),
         (lambda: lowering_speed_rpm(SERIES, 0.5, 1e6), "above the torque at the end of the magnetization curve"),
-        (lambda: lowering_speed_rpm(SeriesMotor(0.07), 0.5, 100.0), "mag_curve and mag_speed are needed"),
+        (lambda: lowering_speed_rpm(SeriesMotor(0.07), 0.5, 100.0), "the series motor has no magnetization curve"),
         (lambda: brake_resistance_ohm("dynamic", V, 0.1, 0.0, 100.0), "e_motor (0 V) must be above zero"),
         (lambda: brake_resistance_ohm("dynamic", V, 0.1, 400.0, 1e4), "no braking resistor is needed"),
         (lambda: overspeed_margin(900.0, 0.0), "n_max (0 rpm) must be above zero"),
