@@ -50,41 +50,33 @@ def NW_BRAKE_RESISTOR(mode, v_supply, r_armature, e_motor, i_max):
     )
 
 
-@cell_function(
-    tables=("motor", "mag_curve"),
-    motor=_DOC["motor"],
-    r_external=_DOC["r_external"],
-    lowering_torque=_DOC["lowering_torque"],
-    mode=_DOC["lowering_mode"],
-    mag_curve=_DOC["mag_curve"],
-)
+#: Help for the arguments both lowering functions take.
+_LOWERING_DOCS = {name: _DOC[key] for name, key in (("motor", "motor"), ("r_external", "r_external"),
+                  ("lowering_torque", "lowering_torque"), ("mode", "lowering_mode"), ("mag_curve", "mag_curve"))}
+
+
+def _lowering(motor, r_external, mode, mag_curve):
+    """``torque -> lowering speed`` for the converted cells of a lowering function."""
+    machine = _machine(motor, mag_curve)
+    r_x, chosen = number("r_external", r_external, "ohm"), option("mode", mode, MODES)
+    return lambda t: lowering_speed_rpm(machine["motor"], r_x, t, chosen, machine["brush_drop_v"])
+
+
+@cell_function(tables=("motor", "mag_curve"), **_LOWERING_DOCS)
 def NW_LOWERING_SPEED(motor, r_external, lowering_torque, mode, mag_curve=None):
     """Steady speed [rpm] at which braking on r_external holds an overhauling load of lowering_torque; where none exists the cell says why."""
-    machine = _machine(motor, mag_curve)
-    r_x, chosen = number("r_external", r_external, "ohm"), option("mode", mode, MODES)
-    return each("lowering_torque", lowering_torque, "N·m",
-                lambda t: lowering_speed_rpm(machine["motor"], r_x, t, chosen, machine["brush_drop_v"]))
+    return each("lowering_torque", lowering_torque, "N·m", _lowering(motor, r_external, mode, mag_curve))
 
 
-@cell_function(
-    tables=("motor", "mag_curve"),
-    motor=_DOC["motor"],
-    r_external=_DOC["r_external"],
-    lowering_torque=_DOC["lowering_torque"],
-    mode=_DOC["lowering_mode"],
-    n_max=_DOC["n_max"],
-    mag_curve=_DOC["mag_curve"],
-    headers=_DOC["headers"],
-)
+@cell_function(tables=("motor", "mag_curve"), **_LOWERING_DOCS, n_max=_DOC["n_max"], headers=_DOC["headers"])
 def NW_LOWERING_CHECK(motor, r_external, lowering_torque, mode, n_max, mag_curve=None, headers=None):
     """Per lowering torque: lowering speed [rpm], margin to n_max [rpm] and a verdict; a load the braking cannot hold says why."""
-    machine = _machine(motor, mag_curve)
-    r_x, chosen = number("r_external", r_external, "ohm"), option("mode", mode, MODES)
+    speed_at = _lowering(motor, r_external, mode, mag_curve)
     limit = number("n_max", n_max, "rpm")
     overspeed_margin(0.0, limit)  # checks n_max before any row
     rows = []
     for t in column("lowering_torque", lowering_torque, "N·m"):
-        speed = guard(lowering_speed_rpm, machine["motor"], r_x, t, chosen, machine["brush_drop_v"])
+        speed = guard(speed_at, t)
         if isinstance(speed, str):
             rows.append([t, speed.removeprefix(ERROR_PREFIX), math.nan, "NOT HELD: no steady lowering speed, see the speed cell"])
         else:
