@@ -574,12 +574,14 @@ def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n
         )
     end, t_end = solution.y_events[0][0], float(solution.t_events[0][0])
     times = np.append(solution.t[solution.t < t_end], t_end)
-    return _Trace(t_end, float(end[0]), _peak(solution.sol, times, 0), _peak(solution.sol, times, 1),
+    return _Trace(t_end, float(end[0]), _peak(solution.sol, times, 0, 0.0), _peak(solution.sol, times, 1, n_start),
                   float(end[2]), float(end[3]), float(end[4]))
 
 
-def _peak(dense, times, row: int) -> float:
-    """Highest value of state ``row`` of a dense solution: the largest step value, refined between its neighbours.
+def _peak(dense, times, row: int, initial: float) -> float:
+    """Highest value of state ``row`` of a dense solution, at least ``initial``.
+
+    The largest value at the steps, refined between its neighbours.
 
     Found after the integration, not by events: near a flat top an event on the
     derivative meets rounding noise of either sign.
@@ -589,8 +591,8 @@ def _peak(dense, times, row: int) -> float:
     if 0 < k < times.size - 1:
         found = minimize_scalar(lambda t: -dense(t)[row], bounds=(times[k - 1], times[k + 1]), method="bounded",
                                 options={"xatol": 1e-12 * max(times[k + 1], 1e-300)})
-        return max(float(values[k]), -float(found.fun))
-    return float(values[k])
+        return max(initial, float(values[k]), -float(found.fun))
+    return max(initial, float(values[k]))
 
 
 def simulate_stop(

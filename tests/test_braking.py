@@ -307,3 +307,19 @@ def test_the_integrators_fast_flux_is_the_curves_own():
     inner = currents[1:-1]
     difference = (SERIES.k_phi(inner + h) - SERIES.k_phi(inner - h)) / (2 * h)
     assert np.allclose(fast[1:-1, 1], difference, rtol=1e-5, atol=1e-9)
+
+
+@settings(max_examples=40, deadline=None)
+@given(st.sampled_from([SHUNT, SERIES]), st.sampled_from(["dynamic", "plugging"]), st.floats(0.0, 5.0),
+       st.floats(1e-4, 0.1), st.floats(-800.0, 800.0), st.floats(50.0, 1500.0), st.floats(0.0, 1.0))
+def test_every_stop_ends_or_says_why(motor, mode, r_b, l_h, t_load, n0, end_share):
+    # Law for every valid input: a stop either ends at n_end, its figures finite and its energies not
+    # negative, or it is refused with one of our messages (never another exception, never a hang).
+    try:
+        result = simulate_stop(motor, V, r_b, mode, l_h, J, t_load, n0, end_share * n0 * 0.99)
+    except (InputError, DesignError) as error:
+        assert str(error)
+    else:
+        figures = [result.t_stop_s, result.revolutions, result.i_peak_a, result.energy_brake_j, result.energy_supply_j]
+        assert all(math.isfinite(x) and x >= 0.0 for x in figures)
+        assert result.n_peak_rpm >= n0
