@@ -76,13 +76,14 @@ def _history(history):
     return rows[:, 0], rows[:, 1]
 
 
-def _caution_row(width):
+def caution_row(width):
     """Last row of a table of settings or verdicts: the caution in its last column."""
     return ("caution", *[math.nan] * (width - 2), CAUTION)
 
 
-def _figures(figures, headers):
-    rows = [*((f.name, f.value, f.unit, f.basis) for f in figures), _caution_row(len(FIGURE_HEADER))]
+def figure_table(figures, headers):
+    """Figures (name, value, unit, basis) under the figure header, the caution last; also the stop in time's table."""
+    rows = [*((f.name, f.value, f.unit, f.basis) for f in figures), caution_row(len(FIGURE_HEADER))]
     return spill(FIGURE_HEADER, rows, flag("headers", headers, True))
 
 
@@ -195,7 +196,7 @@ def NW_RIDE_THROUGH(
         _optional_thermal(i_base, k_factor, tau),
         optional_number("i_prior", i_prior, 0.0, "A"),
     )
-    rows = [*((c.element, c.peak, c.peak_s, c.margin, c.verdict, c.basis) for c in checks), _caution_row(len(RIDE_HEADER))]
+    rows = [*((c.element, c.peak, c.peak_s, c.margin, c.verdict, c.basis) for c in checks), caution_row(len(RIDE_HEADER))]
     return spill(RIDE_HEADER, rows, flag("headers", headers, True))
 
 
@@ -232,7 +233,7 @@ def NW_PROPOSE_SETTINGS(
         optional_number("highset_margin", highset_margin, HIGHSET_MARGIN),
         optional_number("multiplier_step", multiplier_step, MULTIPLIER_STEP),
     )
-    return _figures(figures, headers)
+    return figure_table(figures, headers)
 
 
 @cell_function(
@@ -262,4 +263,4 @@ def NW_COORDINATE(
         optional_number("highset", highset, None, "A"),
         optional_number("highset_delay", highset_delay, 0.0, "s"),
     )
-    return _figures(figures, headers)
+    return figure_table(figures, headers)

@@ -4,6 +4,8 @@ The functions live in one module per subject; this module gathers them so that
 xlwings' "Import Functions" finds them all in one place.
 """
 
+from .braking import *  # noqa: F401,F403
+from .braking import __all__ as _braking
 from .dynamics import *  # noqa: F401,F403
 from .dynamics import __all__ as _dynamics
 from .protection import *  # noqa: F401,F403
@@ -11,4 +13,4 @@ from .protection import __all__ as _protection
 from .starters import *  # noqa: F401,F403
 from .starters import __all__ as _starters
 
-__all__ = [*_starters, *_protection, *_dynamics]
+__all__ = [*_starters, *_protection, *_dynamics, *_braking]

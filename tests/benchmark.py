@@ -19,6 +19,7 @@ from notchwise.formulas.grading import check_sections, grade_uniform
 from notchwise.formulas.protection import ride_through
 from notchwise.formulas.relays import CURVES, operate_time_s
 from notchwise.formulas.thermal import thermal_element
+from notchwise.formulas.braking import simulate_stop
 from notchwise.formulas.start_sim import simulate_start
 from notchwise.formulas.worst_case import sweep_corners
 
@@ -41,6 +42,11 @@ START_T = np.linspace(0.0, 10.0, 10_000)
 START_I = np.where(START_T < 7.5, 420.0 - 130.0 * ((START_T % 1.5) / 1.5), 120.0)
 START_ROWS = [[float(t), float(i)] for t, i in zip(START_T, START_I)]
 THERMAL = thermal_element(120.0, 1.05, 900.0)
+#: The two motors above as name/value blocks, for the stop through the add-in.
+STOP_SHUNT_CELLS = [["kind", "shunt"], ["v_supply", 460.0], ["r_motor", 0.085], ["l_circuit", 0.006],
+                    ["inertia", 14.0], ["k_phi", 0.375]]
+STOP_SERIES_CELLS = [["kind", "series"], ["v_supply", 230.0], ["r_motor", 0.062], ["l_circuit", 0.004],
+                     ["inertia", 6.5], ["mag_speed", 700.0], ["brush_drop", 2.0]]
 
 #: name -> (core call, add-in call, target in ms for the core call)
 CASES = {
@@ -74,6 +80,16 @@ CASES = {
         lambda: operate_time_s(CURVES["IEC VI"], CURVE_CURRENTS, 100.0, 0.3),
         lambda: udfs.NW_RELAY_TIME("IEC VI", CURVE_COLUMN, 100.0, 0.3),
         5.0,
+    ),
+    "stop, shunt (constant flux)": (
+        lambda: simulate_stop(SHUNT, 460.0, 1.1, "dynamic", 0.006, 14.0, 500.0, 1150.0),
+        lambda: udfs.NW_STOP_SIM(STOP_SHUNT_CELLS, 1.1, "dynamic", 500.0, 1150.0, None, None, None, None),
+        2.0,
+    ),
+    "stop, series (curve)": (
+        lambda: simulate_stop(series_motor(), 230.0, 0.8, "dynamic", 0.004, 6.5, 520.0, 900.0, 0.0, 2.0),
+        lambda: udfs.NW_STOP_SIM(STOP_SERIES_CELLS, 0.8, "dynamic", 520.0, 900.0, None, CURVE_ROWS, None, None),
+        10.0,
     ),
     "ride-through, 10,000 samples": (
         lambda: ride_through(START_T, START_I, CURVES["IEC VI"], 140.0, 1.2, 550.0, 0.0, THERMAL),

@@ -62,6 +62,10 @@ EXAMPLES = {
     "NW_SECTION_HEATING": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, "AISI 304", 3.0, 20.0, M, M, M, M),
     "NW_WORST_CASE": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, -0.1, 0.1, 0.05, "NiCr 80/20", 300.0, 2.0, M, M, M),
     "NW_START_HISTORY": (SERIES_MOTOR, SECTIONS, ((0.0, 200.0), (600.0, 260.0)), ((0.4,), (0.3,), (0.2,)), 50.0, SERIES_CURVE, M),
+    "NW_BRAKE_RESISTOR": ("dynamic", 220.0, 0.05, 200.0, 400.0),
+    "NW_STOP_SIM": (SHUNT_MOTOR, 0.5, "plugging", 50.0, 1000.0, M, M, M, 1100.0),
+    "NW_LOWERING_SPEED": (SERIES_MOTOR, 0.5, ((100.0,), (300.0,)), "dynamic", SERIES_CURVE),
+    "NW_LOWERING_CHECK": (SHUNT_MOTOR, 0.5, ((100.0,), (300.0,)), "Dynamic", 1200.0, M, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
@@ -187,6 +191,14 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_START_SIM", 3, ((0.5,), (0.4,)), "dwell has 2 entries but sections has 3"),
         ("NW_WORST_CASE", 6, 0.9, "tolerance (0.9) must be at most 0.5"),
         ("NW_SECTION_HEATING", 4, "brass", "alloy ('brass') must be one of: AISI 304, NiCr 80/20, CuNi 44"),
+        ("NW_BRAKE_RESISTOR", 4, 40000.0, "no braking resistor is needed: r_armature alone (0.05 ohm)"),
+        ("NW_BRAKE_RESISTOR", 0, "regenerative", "mode ('regenerative') must be one of: dynamic, plugging"),
+        ("NW_STOP_SIM", 2, "counter-torque", "mode counter-torque does not apply to a stop of a shunt motor"),
+        ("NW_STOP_SIM", 5, 1500.0, "n_end (1500 rpm) must be below n_start (1000 rpm)"),
+        ("NW_STOP_SIM", 0, SERIES_MOTOR, "mag_curve has 0 rows of numbers"),
+        ("NW_LOWERING_SPEED", 2, 10.0, "the series field does not build up at 10 N·m"),
+        ("NW_LOWERING_SPEED", 3, "regenerative", "mode regenerative does not apply to lowering of a series motor"),
+        ("NW_LOWERING_CHECK", 4, -5.0, "n_max (-5 rpm) must be above zero"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):

@@ -1,0 +1,765 @@
+r"""Braking and lowering of DC motors: braking resistors, the stop in time, and the lowering speed.
+
+Two braking connections are modelled [1]_, [2]_:
+
+* **dynamic** (rheostatic): the armature is switched from the supply onto the
+  braking resistor; the machine runs as a generator on its own back-EMF. A
+  shunt or separately excited motor keeps its field on the supply (constant
+  flux); a series motor's field is reconnected so that the braking current
+  keeps its direction through it, and the field is self-excited from residual
+  flux.
+* **plugging** (counter-current): the armature is reversed on the supply
+  through the braking resistor; supply voltage and back-EMF then drive the
+  current together. At standstill the motor would start in reverse: it must be
+  disconnected there.
+
+With :math:`i` the braking current (positive against the motoring direction),
+:math:`R = R_m + R_b` the whole braking circuit, :math:`V_s` the supply in the
+loop (0 for dynamic braking, :math:`V - V_b` for plugging) and the laws of the
+DC machine (Fitzgerald et al. [3]_, Eqs. 7.7, 7.8 and sec. 7.9):
+
+.. math::
+
+    L\,\frac{di}{dt} = V_s + k\Phi(i)\,n - V_b - R\,i, \qquad
+    J\,\frac{d\omega}{dt} = -\frac{60}{2\pi}\,k\Phi(i)\,i - T_L(n)
+
+where :math:`T_L` is the load torque against motion (positive: it helps the
+stop; negative: an overhauling load that drives the shaft). In dynamic
+braking the current does not reverse: where the back-EMF falls below the brush
+drop it stays at zero.
+
+Series self-excitation. The field builds up only where the resistance line
+:math:`R\,i` lies below the magnetization curve scaled to the speed, i.e.
+where :math:`R` is below the critical resistance :math:`R_c(n) = n\,\max_i
+dk\Phi/di`, the slope of the linear part of the curve [3]_ (sec. 7.6, voltage
+build-up of self-excited generators, from memory). Below the critical speed
+:math:`n_c = R/\max dk\Phi/di` the braking rests on residual flux alone, which
+cannot be relied upon.
+
+References
+----------
+.. [1] G. K. Dubey, *Fundamentals of Electrical Drives*, 2nd ed., Narosa /
+   Alpha Science, 2001, ch. 5 (DC motor drives), sections on dynamic braking
+   and plugging of separately excited and series motors (from memory: section
+   and equation numbers not verified).
+.. [2] P. C. Sen, *Principles of Electric Machines and Power Electronics*,
+   2nd ed., Wiley, 1997, ch. 4 (DC machines), braking of DC motors (from
+   memory: section number not verified).
+.. [3] A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, *Electric Machinery*,
+   6th ed., McGraw-Hill, 2003, ch. 7, Eqs. 7.7-7.8; sec. 7.9 (transients).
+.. [4] L. Petzold, "Automatic selection of methods for solving stiff and
+   nonstiff systems of ordinary differential equations," *SIAM J. Sci. Stat.
+   Comput.*, vol. 4, no. 1, pp. 136-148, 1983 (LSODA, as in ODEPACK).
+"""
+
+from __future__ import annotations
+
+import math
+from bisect import bisect_right
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.integrate import solve_ivp
+from scipy.interpolate import PchipInterpolator
+from scipy.optimize import brentq, minimize_scalar
+
+from .dc_motor import effective_supply_v, torque_nm
+from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
+from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
+from .start_load import LoadTorque, load_torque
+
+__all__ = [
+    "MODES",
+    "STOP_MODES",
+    "LOWERING_MODES",
+    "MAX_SPEED_RPM",
+    "TIME_CAP_FACTOR",
+    "SHORTEST_STOP_S",
+    "MAX_EVALUATIONS",
+    "brake_resistance_ohm",
+    "braking_load",
+    "BuildUp",
+    "lowering_speed_rpm",
+    "StopResult",
+    "simulate_stop",
+    "overspeed_margin",
+]
+
+#: Every braking and lowering mode; the wound-rotor modes await that motor model.
+MODES = ("dynamic", "plugging", "counter-torque", "regenerative")
+#: Modes of a stop in time, per motor kind (kinds as in the motor block).
+STOP_MODES = {"shunt": ("dynamic", "plugging"), "series": ("dynamic", "plugging"), "compound": ()}
+#: Modes of steady lowering of an overhauling load, per motor kind.
+LOWERING_MODES = {"shunt": ("dynamic",), "series": ("dynamic",), "compound": ()}
+#: Highest speed accepted as input: no machine in this field turns faster. Common practice, no source. [rpm]
+MAX_SPEED_RPM = 1.0e5
+#: Points on which a magnetization curve is sampled for its steepest slope and the steady currents. [-]
+_CURVE_POINTS = 1024
+#: Speeds on which the decelerating torque is checked before a stop is integrated. [-]
+_SPEED_POINTS = 128
+#: Shortest stop accepted: no real drive stops faster. Common practice, no source. [s]
+SHORTEST_STOP_S = 1e-6
+#: The stop may last at most this many times its estimate before it is refused. [-]
+TIME_CAP_FACTOR = 20.0
+
+
+def _kind(motor) -> str:
+    """The machine's kind (``Machine.kind``), by which the modes are offered."""
+    kind = getattr(motor, "kind", None)
+    if kind not in STOP_MODES:
+        raise InputError(f"motor ({type(motor).__name__}) is not a machine model with braking: {', '.join(STOP_MODES)}")
+    return kind
+
+
+def _mode_for(motor, mode, offered: dict, what: str) -> str:
+    """``mode`` checked against the modes ``offered`` for the motor's kind."""
+    chosen = choose("mode", mode, MODES)
+    kind = _kind(motor)
+    if chosen not in offered[kind]:
+        modes = ", ".join(offered[kind]) or "none yet"
+        raise InputError(f"mode {chosen} does not apply to {what} of a {kind} motor; its modes are: {modes}")
+    return chosen
+
+
+def brake_resistance_ohm(mode: str, v_supply_v: float, r_armature_ohm: float, e_motor_v: float, i_max_a: float) -> float:
+    r"""External resistance that limits the braking current to ``i_max_a`` as braking begins.
+
+    Parameters
+    ----------
+    mode : {"dynamic", "plugging"}
+        Dynamic: armature switched onto the resistor; plugging: armature
+        reversed on the supply through it. [-]
+    v_supply_v : float
+        Supply voltage (enters plugging only). [V]
+    r_armature_ohm : float
+        Resistance of the motor's armature circuit (series field included). [ohm]
+    e_motor_v : float
+        Back-EMF at the instant braking begins. [V]
+    i_max_a : float
+        Highest braking current allowed. [A]
+
+    Returns
+    -------
+    float
+        External braking resistance. [ohm]
+
+    Raises
+    ------
+    DesignError
+        Where the armature resistance alone already holds the current below ``i_max_a``.
+
+    Notes
+    -----
+    .. math:: R_b = \frac{E}{I_{max}} - R_a \ \text{(dynamic)}, \qquad
+              R_b = \frac{V + E}{I_{max}} - R_a \ \text{(plugging)}
+
+    References
+    ----------
+    .. [1] Fitzgerald, Kingsley, Umans, *Electric Machinery*, 6th ed., 2003,
+       Eq. 7.8 applied to the braking loop.
+    .. [2] G. K. Dubey, *Fundamentals of Electrical Drives*, 2nd ed., 2001,
+       ch. 5, dynamic braking and plugging (from memory).
+    """
+    chosen = choose("mode", mode, ("dynamic", "plugging"))
+    v = require_positive("v_supply", v_supply_v, "V")
+    r_a = require_positive("r_armature", r_armature_ohm, "ohm")
+    e = require_positive("e_motor", e_motor_v, "V")
+    i_max = require_positive("i_max", i_max_a, "A")
+    driving = e if chosen == "dynamic" else v + e  # Eq. 7.8 of [1] on the braking loop; [2]
+    r_b = driving / i_max - r_a
+    if r_b < 0.0:
+        raise DesignError(
+            f"no braking resistor is needed: r_armature alone ({quantity(r_a, 'ohm')}) already holds the "
+            f"{chosen} current to {quantity(driving / r_a, 'A')}, below i_max ({quantity(i_max, 'A')})"
+        )
+    return r_b
+
+
+def braking_load(torque) -> LoadTorque:
+    """A load torque against motion that may be negative (overhauling), from a number or a table.
+
+    Parameters
+    ----------
+    torque : float, array_like or LoadTorque
+        A constant [N·m], or rows of (speed [rpm], torque [N·m]) with speeds
+        strictly rising from 0 rpm; positive torque opposes motion and helps
+        the stop, negative torque drives the shaft (a lowered load). [N·m]
+
+    Returns
+    -------
+    LoadTorque
+        The table of :func:`notchwise.formulas.start_sim.load_torque`, signs kept.
+    """
+    if isinstance(torque, LoadTorque):
+        return torque
+    rows = np.asarray(torque, dtype=object)
+    if rows.ndim == 2 and rows.shape[1] >= 2:
+        values = as_float_array("load_torque torque", rows[:, 1], "N·m")
+        magnitudes = np.column_stack([rows[:, 0], np.abs(values)])
+    else:
+        values = as_float_array("load_torque", torque, "N·m")
+        magnitudes = np.abs(values) if values.size == 1 else rows  # a wrong shape: load_torque words it
+    checked = load_torque(magnitudes)  # its checks, on the magnitudes
+    return LoadTorque(checked.speed_rpm, np.copysign(checked.torque_nm, values))
+
+
+@dataclass(frozen=True)
+class _Circuit:
+    """The braking loop: motor, loop voltage and resistance, and the steady current at a speed."""
+
+    motor: object
+    dynamic: bool
+    v_loop_v: float  # supply less brush drop (plugging), or minus the brush drop (dynamic) [V]
+    r_ohm: float
+
+    @property
+    def constant_flux(self) -> bool:
+        """True where the flux does not follow the braking current (a shunt or separately excited field)."""
+        return self.motor.flux_constant
+
+    def k_phi(self, i_a):
+        """Flux at braking current ``i_a``, the curve held at its ends. [V/rpm]"""
+        i = np.clip(np.abs(i_a), 0.0, self.motor.i_max_a)
+        return np.asarray(self.motor.k_phi(i), dtype=float)
+
+    def steady_current_a(self, n_rpm) -> np.ndarray:
+        """Current the loop settles to at speed ``n_rpm`` with inductance neglected; reached from 0 A. [A]"""
+        n = np.atleast_1d(np.asarray(n_rpm, dtype=float))
+        if self.constant_flux:
+            return np.clip((self.v_loop_v + self.motor.k_phi_v_per_rpm * n) / self.r_ohm, 0.0, None)
+        i = np.linspace(0.0, self.motor.i_max_a, _CURVE_POINTS)
+        surplus = self.v_loop_v + np.outer(n, self.k_phi(i)) - self.r_ohm * i  # Eq. 7.8 of [3] at di/dt = 0
+        if np.any(surplus[:, -1] > 0.0):
+            top = float(n[np.argmax(surplus[:, -1] > 0.0)])
+            raise DesignError(
+                f"at {quantity(top, 'rpm')} and above the braking current runs beyond the end of the magnetization curve "
+                f"({quantity(self.motor.i_max_a, 'A')}): extend the curve or add braking resistance"
+            )
+        falls = surplus <= 0.0
+        first = np.argmax(falls, axis=1)  # the first root from 0 A upwards is the one the current reaches
+        lo = np.maximum(first - 1, 0)
+        rows = np.arange(n.size)
+        s_lo, s_hi = surplus[rows, lo], surplus[rows, first]
+        with np.errstate(invalid="ignore", divide="ignore"):
+            share = np.where(s_lo > s_hi, s_lo / (s_lo - s_hi), 0.0)
+        return np.where(surplus[:, 0] <= 0.0, 0.0, i[lo] + share * (i[first] - i[lo]))
+
+    def refined_current_a(self, n_rpm: float) -> float:
+        """:meth:`steady_current_a` at one speed, polished by Brent's method. [A]"""
+        guess = float(self.steady_current_a(n_rpm)[0])
+        if self.constant_flux or guess == 0.0:
+            return guess
+        step = self.motor.i_max_a / (_CURVE_POINTS - 1)
+
+        def surplus(i):
+            return self.v_loop_v + float(self.k_phi(i)) * n_rpm - self.r_ohm * i
+
+        lo, hi = max(guess - 1.5 * step, 0.0), min(guess + 1.5 * step, self.motor.i_max_a)
+        return brentq(surplus, lo, hi, xtol=1e-12, rtol=1e-13) if surplus(lo) > 0.0 >= surplus(hi) else guess
+
+    def braking_torque_nm(self, i_a):
+        """Developed torque against motion at braking current ``i_a``. [N·m]"""
+        return torque_nm(self.k_phi(i_a), i_a)
+
+
+def _circuit(motor, dynamic: bool, v_loop_v: float, r_external_ohm: float) -> _Circuit:
+    """The braking loop of ``motor`` with ``r_external_ohm`` outside it, checked."""
+    r = require_positive("r_circuit", motor.r_ohm + require_non_negative("r_external", r_external_ohm, "ohm"), "ohm")
+    motor.require_dynamics()
+    return _Circuit(motor, dynamic, v_loop_v, r)
+
+
+@dataclass(frozen=True)
+class BuildUp:
+    """Where a series motor's self-excited braking field still builds up.
+
+    Attributes
+    ----------
+    critical_speed_rpm : float
+        Below this speed the circuit resistance exceeds the critical resistance. [rpm]
+    i_least_a : float
+        Steady braking current at the critical speed: the least current at
+        which self-excited braking still builds up. [A]
+    """
+
+    critical_speed_rpm: float
+    i_least_a: float
+
+
+def _series_build_up(circuit: _Circuit) -> BuildUp:
+    r"""Critical speed and least build-up current of self-excited series braking.
+
+    Parameters
+    ----------
+    circuit : _Circuit
+        The dynamic-braking loop of a series motor (its resistance and brush drop). [-]
+
+    Returns
+    -------
+    BuildUp
+        Critical speed [rpm] and least build-up current [A].
+
+    .. math:: n_c = \frac{R}{\max_i dk\Phi/di}, \qquad I_b: \ k\Phi(I_b)\,n_c = V_b + R\,I_b
+
+    Raises
+    ------
+    DesignError
+        Where the curve has no residual flux (nothing to build up from).
+    """
+    if float(circuit.k_phi(0.0)) <= 0.0:
+        raise DesignError(
+            "mag_curve has no residual EMF at 0 A: a series motor's self-excited braking field has nothing to "
+            "build up from; give the residual EMF the motor shows, or use plugging"
+        )
+    i = np.linspace(0.0, circuit.motor.i_max_a, _CURVE_POINTS)
+    slope = float(np.max(np.diff(circuit.k_phi(i)) / np.diff(i)))  # the linear part of the curve [3]
+    n_c = circuit.r_ohm / slope
+    return BuildUp(n_c, circuit.refined_current_a(n_c))
+
+
+def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, mode: str = "dynamic",
+                       brush_drop_v: float = 0.0) -> float:
+    r"""Steady speed at which dynamic braking holds an overhauling load.
+
+    Parameters
+    ----------
+    motor : ShuntMotor or SeriesMotor
+        The machine; a series motor needs its magnetization curve with its speed. [-]
+    r_external_ohm : float
+        Braking resistance outside the motor. [ohm]
+    lowering_torque_nm : float
+        Torque the descending load exerts on the motor shaft, above zero. [N·m]
+    mode : {"dynamic"}
+        Armature on the resistor (the wound-rotor modes come with that motor). [-]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+
+    Returns
+    -------
+    float
+        Lowering speed. [rpm]
+
+    Notes
+    -----
+    In steady state the braking torque equals the load torque and the back-EMF
+    drives the current through the circuit:
+
+    .. math:: T = \frac{60}{2\pi} k\Phi(I)\,I, \qquad k\Phi(I)\,n = V_b + I (R_m + R_x)
+              \ \Rightarrow\ n = \frac{V_b + I(R_m + R_x)}{k\Phi(I)}
+
+    (for constant flux :math:`n = (V_b + 2\pi T R/(60\,k\Phi))/k\Phi`).
+
+    Raises
+    ------
+    DesignError
+        Where a series field would not build up at that speed (the load is too
+        light, or the resistance above the critical resistance).
+
+    References
+    ----------
+    See the module docstring ([1]_, [3]_ Eqs. 7.7, 7.8).
+    """
+    _mode_for(motor, mode, LOWERING_MODES, "lowering")
+    vb = require_non_negative("brush_drop", brush_drop_v, "V")
+    circuit = _circuit(motor, True, -vb, r_external_ohm)
+    t = require_positive("lowering_torque", lowering_torque_nm, "N·m")
+    if circuit.constant_flux:
+        i = t / (NM_PER_V_A_PER_RPM * motor.k_phi_v_per_rpm)  # Eq. 7.1 of [3]
+    else:
+        i_top = motor.i_max_a
+        if float(circuit.braking_torque_nm(i_top)) < t:
+            raise DesignError(
+                f"lowering_torque ({quantity(t, 'N·m')}) is above the torque at the end of the magnetization curve "
+                f"({quantity(float(circuit.braking_torque_nm(i_top)), 'N·m')} at {quantity(i_top, 'A')}): extend the curve"
+            )
+        i = brentq(lambda x: float(circuit.braking_torque_nm(x)) - t, 0.0, i_top, xtol=1e-12, rtol=1e-13)
+    n = (vb + i * circuit.r_ohm) / float(circuit.k_phi(i))  # Eq. 7.8 of [3]
+    if not math.isfinite(n) or n > MAX_SPEED_RPM:
+        raise DesignError(f"the load is not held: the lowering speed would exceed {quantity(MAX_SPEED_RPM, 'rpm')}")
+    if not circuit.constant_flux:
+        build = _series_build_up(circuit)
+        if n < build.critical_speed_rpm:
+            raise DesignError(
+                f"the series field does not build up at {quantity(t, 'N·m')}: the current "
+                f"({quantity(i, 'A')}) is below the least build-up current ({quantity(build.i_least_a, 'A')}) and "
+                f"the circuit ({quantity(circuit.r_ohm, 'ohm')}) is above the critical resistance at "
+                f"{quantity(n, 'rpm')}; a load this light is held on residual flux only: use less resistance"
+            )
+    return n
+
+
+@dataclass(frozen=True)
+class StopResult:
+    """A simulated stop.
+
+    Attributes
+    ----------
+    t_stop_s : float
+        Time from the start of braking to ``n_end``. [s]
+    revolutions : float
+        Revolutions turned in that time. [-]
+    i_peak_a : float
+        Highest braking current. [A]
+    n_peak_rpm : float
+        Highest speed (above the start where an overhauling load speeds the shaft up first). [rpm]
+    torque_start_nm : float
+        Braking torque at the starting speed once the current has built up
+        (inductance neglected). [N·m]
+    torque_end_nm : float
+        Braking torque as the speed reaches ``n_end``. [N·m]
+    energy_brake_j, energy_motor_j : float
+        Energy in the braking resistor and in the motor's own resistance. [J]
+    energy_supply_j : float
+        Energy drawn from the supply (plugging; 0 J for dynamic braking). [J]
+    i_end_a : float
+        Current as the speed reaches ``n_end``. [A]
+    n_end_rpm : float
+        The speed the stop was taken to. [rpm]
+    build_up : BuildUp or None
+        Series dynamic braking only: critical speed and least build-up current.
+    """
+
+    t_stop_s: float
+    revolutions: float
+    i_peak_a: float
+    n_peak_rpm: float
+    torque_start_nm: float
+    torque_end_nm: float
+    energy_brake_j: float
+    energy_motor_j: float
+    energy_supply_j: float
+    i_end_a: float
+    n_end_rpm: float
+    build_up: BuildUp | None
+
+
+#: Most evaluations of the equations and steps one stop may take before it is refused (bounds a cell's time). [-]
+MAX_EVALUATIONS = 50_000
+
+
+class _Unsolvable(ArithmeticError):
+    """The integrator went past MAX_EVALUATIONS or met a figure that is not finite."""
+
+    def __str__(self):
+        return f"more than {MAX_EVALUATIONS} evaluations or a figure that is not finite, after {self.args[0]}"
+
+
+@dataclass(frozen=True)
+class _Trace:
+    """What the integrator hands back: end state, peaks and the integrals of i, i² and n."""
+
+    t_s: float
+    i_a: float
+    i_peak_a: float
+    n_peak_rpm: float
+    charge_c: float
+    i2t_a2s: float
+    n_t_rpm_s: float
+
+
+def _scalar_flux(circuit: _Circuit):
+    """``i -> (kΦ(i), dkΦ/di)`` at one current, fast: the motor's flux for the integrator's many calls.
+
+    A series motor's curve is the monotone piecewise cubic of its table
+    (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`); the same cubic
+    is rebuilt from the table and evaluated by Horner's rule, which gives its
+    exact slope as well. Currents are held within the table.
+    """
+    motor = circuit.motor
+    if circuit.constant_flux:
+        constant = (float(motor.k_phi_v_per_rpm), 0.0)
+        return lambda i: constant
+    curve = motor.curve
+    cubic = PchipInterpolator(curve.excitation, curve.emf_v)
+    breaks, pieces, top = cubic.x.tolist(), (cubic.c / curve.speed_rpm).T.tolist(), curve.max_excitation
+    last = len(pieces) - 1
+
+    def flux_slope(i):
+        i = min(abs(i), top)
+        k = min(bisect_right(breaks, i) - 1, last)
+        c3, c2, c1, c0 = pieces[k]
+        x = i - breaks[k]
+        return ((c3 * x + c2) * x + c1) * x + c0, (3.0 * c3 * x + 2.0 * c2) * x + c1
+
+    return flux_slope
+
+
+def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n_start: float, n_end: float,
+                    t_cap: float, rtol: float) -> _Trace:
+    """Integrate the braking loop and the shaft from (0 A, n_start) until the speed falls to ``n_end``.
+
+    The one place that integrates: a faster integrator replaces this function.
+    LSODA [4] (it switches between Adams and BDF methods as the stiffness of
+    the loop's L/R against the mechanical time constant asks) with an analytic
+    Jacobian (the quadrature rows never feed back, so a difference Jacobian
+    would misjudge its steps). Events: the speed reaching ``n_end`` (terminal),
+    and the peaks of current and speed.
+    """
+    c1, r, v_loop, dynamic = NM_PER_V_A_PER_RPM, circuit.r_ohm, circuit.v_loop_v, circuit.dynamic
+    flux_slope = _scalar_flux(circuit)
+    speeds, torques = load.speed_rpm, load.torque_nm
+    if load.constant:
+        t_const = float(torques[0])
+
+        def load_at(n):
+            return t_const
+
+        def load_slope(n):
+            return 0.0
+    else:
+        def load_at(n):
+            return float(np.interp(n, speeds, torques))
+
+        def load_slope(n):
+            step_n = 1e-6 * max(abs(n), 1.0)
+            return (load_at(n + step_n) - load_at(n - step_n)) / (2.0 * step_n)
+
+    last = {}
+
+    def slopes(i, n):
+        """Flux and the two derivatives at (i, n); the last point is kept for the events that follow a step."""
+        key = (i, n)
+        if key not in last:
+            k_phi = flux_slope(i)[0]
+            di = (v_loop + k_phi * n - r * i) / l_h
+            if dynamic and i <= 0.0 and di < 0.0:
+                di = 0.0  # the current does not reverse through the brushes
+            last.clear()
+            last[key] = (k_phi, di, c1 * (-c1 * k_phi * i - load_at(n)) / j)
+        return last[key]
+
+    evaluations = [0]
+
+    def rhs(t, y):
+        evaluations[0] += 1
+        _, di, dn = slopes(y[0], y[1])
+        if evaluations[0] > MAX_EVALUATIONS or not (math.isfinite(di) and math.isfinite(dn)):
+            raise _Unsolvable(evaluations[0])
+        return [di, dn, y[0], y[0] * y[0], y[1]]
+
+    def jacobian(t, y):
+        i, n = y[0], y[1]
+        k_phi, dflux = flux_slope(i)
+        jac = np.zeros((5, 5))
+        jac[0, 0], jac[0, 1] = (dflux * n - r) / l_h, k_phi / l_h
+        jac[1, 0], jac[1, 1] = -c1 * c1 * (k_phi + dflux * i) / j, -c1 * load_slope(n) / j
+        jac[2, 0], jac[3, 0], jac[4, 1] = 1.0, 2.0 * i, 1.0
+        return jac
+
+    def reaches_end(t, y):
+        evaluations[0] += 1  # once per step: bounds steps that no longer call the equations
+        if evaluations[0] > MAX_EVALUATIONS:
+            raise _Unsolvable(evaluations[0])
+        return y[1] - n_end
+
+    reaches_end.terminal, reaches_end.direction = True, -1.0
+    i_scale = max(abs(circuit.steady_current_a(n_start)[0]), 1.0)
+    scale = np.array([i_scale, max(n_start, 1.0), i_scale * t_cap, i_scale * i_scale * t_cap, n_start * t_cap])
+    try:
+        with np.errstate(over="raise", invalid="raise"):
+            solution = solve_ivp(rhs, (0.0, t_cap), [0.0, n_start, 0.0, 0.0, 0.0], method="LSODA", rtol=rtol,
+                                 atol=rtol * 1e-3 * np.maximum(scale, 1e-9), events=reaches_end,
+                                 jac=jacobian, dense_output=True)
+    except (_Unsolvable, FloatingPointError) as error:
+        raise DesignError(
+            f"the stop could not be integrated ({error or 'a figure overflowed'}): check inertia, inductance, load "
+            "and speeds for values far outside a real drive"
+        ) from None
+    if solution.status < 0:
+        raise DesignError(f"the stop could not be integrated ({solution.message})")
+    if solution.status != 1:
+        raise DesignError(
+            f"the speed did not fall to n_end ({quantity(n_end, 'rpm')}) within {quantity(t_cap, 's')}, "
+            f"{TIME_CAP_FACTOR:g} times the stop's estimate: the braking is as good as lost"
+        )
+    end, t_end = solution.y_events[0][0], float(solution.t_events[0][0])
+    times = np.append(solution.t[solution.t < t_end], t_end)
+    return _Trace(t_end, float(end[0]), _peak(solution.sol, times, 0, 0.0), _peak(solution.sol, times, 1, n_start),
+                  float(end[2]), float(end[3]), float(end[4]))
+
+
+def _peak(dense, times, row: int, initial: float) -> float:
+    """Highest value of state ``row`` of a dense solution, at least ``initial``.
+
+    The largest value at the steps, refined between its neighbours.
+
+    Found after the integration, not by events: near a flat top an event on the
+    derivative meets rounding noise of either sign.
+    """
+    values = dense(times)[row]
+    k = int(np.argmax(values))
+    if 0 < k < times.size - 1:
+        found = minimize_scalar(lambda t: -dense(t)[row], bounds=(times[k - 1], times[k + 1]), method="bounded",
+                                options={"xatol": 1e-12 * max(times[k + 1], 1e-300)})
+        return max(initial, float(values[k]), -float(found.fun))
+    return max(initial, float(values[k]))
+
+
+def simulate_stop(
+    motor,
+    v_supply_v: float,
+    r_brake_ohm: float,
+    mode: str,
+    l_circuit_h: float,
+    inertia_kgm2: float,
+    load,
+    n_start_rpm: float,
+    n_end_rpm: float | None = None,
+    brush_drop_v: float = 0.0,
+    rtol: float = 1e-7,
+) -> StopResult:
+    r"""Simulate a braking stop of a DC motor in time, from ``n_start_rpm`` to ``n_end_rpm``.
+
+    Parameters
+    ----------
+    motor : ShuntMotor or SeriesMotor
+        The machine; a series motor needs its magnetization curve with its speed. [-]
+    v_supply_v : float
+        Supply voltage (plugging drives the current with it). [V]
+    r_brake_ohm : float
+        Braking resistance outside the motor, at or above zero. [ohm]
+    mode : {"dynamic", "plugging"}
+        The braking connection (see the module docstring). [-]
+    l_circuit_h : float
+        Inductance of the braking circuit, above zero. [H]
+    inertia_kgm2 : float
+        Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
+    load : float, array_like or LoadTorque
+        Load torque against motion: positive helps the stop, negative
+        overhauls (see :func:`braking_load`). [N·m]
+    n_start_rpm : float
+        Speed at which braking begins, above zero. [rpm]
+    n_end_rpm : float, optional
+        Speed the stop is taken to, below ``n_start_rpm``; default 0 rpm. [rpm]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
+    rtol : float, optional
+        Relative tolerance of the integrator. [-]
+
+    Returns
+    -------
+    StopResult
+
+    Raises
+    ------
+    DesignError
+        Where the braking cannot take the speed to ``n_end``: an overhauling
+        load that the braking only holds, dynamic braking of a constant-flux
+        motor taken to 0 rpm with nothing opposing motion (it decays without
+        end), or a series field that cannot build up at ``n_start``.
+
+    Notes
+    -----
+    .. math:: L\frac{di}{dt} = V_s + k\Phi(i) n - V_b - R i,\quad
+              J\frac{d\omega}{dt} = -\frac{60}{2\pi}k\Phi(i) i - T_L(n)
+
+    The braking current starts from 0 A (the braking contactor closes on a
+    dead circuit). Energies: :math:`R_b\int i^2dt`, :math:`R_m\int i^2dt`,
+    :math:`V\int i\,dt` (plugging).
+
+    References
+    ----------
+    See the module docstring.
+    """
+    chosen = _mode_for(motor, mode, STOP_MODES, "a stop")
+    v_eff = effective_supply_v(v_supply_v, brush_drop_v)
+    dynamic = chosen == "dynamic"
+    circuit = _circuit(motor, dynamic, v_eff - v_supply_v if dynamic else v_eff, r_brake_ohm)
+    l_h = require_positive("l_circuit", l_circuit_h, "H")
+    j = require_positive("inertia", inertia_kgm2, "kg·m²")
+    n_start = require_positive("n_start", n_start_rpm, "rpm")
+    if n_start > MAX_SPEED_RPM:
+        raise InputError(f"n_start ({quantity(n_start, 'rpm')}) must be at most {quantity(MAX_SPEED_RPM, 'rpm')}")
+    n_end = 0.0 if n_end_rpm is None else require_non_negative("n_end", n_end_rpm, "rpm")
+    if n_end >= n_start:
+        raise InputError(f"n_end ({quantity(n_end, 'rpm')}) must be below n_start ({quantity(n_start, 'rpm')})")
+    load = braking_load(load)
+    rtol = require_positive("rtol", rtol)
+
+    build = None
+    if not circuit.constant_flux and dynamic:
+        build = _series_build_up(circuit)
+        if n_start <= build.critical_speed_rpm:
+            raise DesignError(
+                f"the series field cannot build up: at n_start ({quantity(n_start, 'rpm')}) the braking circuit "
+                f"({quantity(circuit.r_ohm, 'ohm')}) is above the critical resistance, which needs "
+                f"{quantity(build.critical_speed_rpm, 'rpm')} or more; the braking current would stay below "
+                f"{quantity(build.i_least_a, 'A')}: use less braking resistance"
+            )
+    speeds = np.linspace(n_end, n_start, _SPEED_POINTS)
+    decelerating = circuit.braking_torque_nm(circuit.steady_current_a(speeds)) + load.at(speeds)
+    _check_decelerates(speeds, decelerating, chosen, n_end)
+    swing = j * RAD_S_PER_RPM * (n_start - n_end)  # angular momentum to take out [N·m·s]
+    t_shortest, t_estimate = swing / float(np.max(decelerating)), swing / float(np.min(decelerating)) + l_h / circuit.r_ohm
+    if not t_shortest >= SHORTEST_STOP_S:
+        raise DesignError(
+            f"the stop would take about {quantity(t_shortest, 's')}, under {quantity(SHORTEST_STOP_S, 's')}: "
+            "no real drive stops so fast; check inertia and load torque"
+        )
+    trace = _integrate_stop(circuit, load, l_h, j, n_start, n_end, TIME_CAP_FACTOR * t_estimate, rtol)
+    if trace.i_peak_a > motor.i_max_a:
+        raise DesignError(
+            f"the braking current ({quantity(trace.i_peak_a, 'A')}) runs beyond the end of the magnetization curve "
+            f"({quantity(motor.i_max_a, 'A')}): extend the curve or add braking resistance"
+        )
+    i_start = circuit.refined_current_a(n_start)
+    return StopResult(
+        t_stop_s=trace.t_s,
+        revolutions=trace.n_t_rpm_s / 60.0,
+        i_peak_a=trace.i_peak_a,
+        n_peak_rpm=trace.n_peak_rpm,
+        torque_start_nm=float(circuit.braking_torque_nm(i_start)),
+        torque_end_nm=float(circuit.braking_torque_nm(trace.i_a)),
+        energy_brake_j=(circuit.r_ohm - motor.r_ohm) * trace.i2t_a2s,
+        energy_motor_j=motor.r_ohm * trace.i2t_a2s,
+        energy_supply_j=0.0 if dynamic else v_supply_v * trace.charge_c,
+        i_end_a=trace.i_a,
+        n_end_rpm=n_end,
+        build_up=build,
+    )
+
+
+def _check_decelerates(speeds, decelerating, mode, n_end):
+    """Refuse a stop whose steady decelerating torque vanishes somewhere between n_end and n_start."""
+    held = np.nonzero(decelerating <= 0.0)[0]
+    if held.size == 0:
+        return
+    top = int(held[-1])
+    if top == speeds.size - 1:
+        raise DesignError(
+            f"the load overhauls the {mode} braking at n_start ({quantity(float(speeds[-1]), 'rpm')}): the shaft "
+            "would speed up, not stop; less braking resistance gives more braking torque"
+        )
+    if top == 0 and mode == "dynamic":
+        raise DesignError(
+            "dynamic braking fades with the speed (on constant flux it decays exponentially): with nothing "
+            "opposing motion it never reaches n_end 0 rpm; give n_end above zero (e.g. the speed at which the "
+            "holding brake sets)"
+        )
+    a, b = speeds[top], speeds[top + 1]
+    raise DesignError(
+        f"the braking cannot take the speed below about {quantity(float(0.5 * (a + b)), 'rpm')}, above n_end "
+        f"({quantity(n_end, 'rpm')}): there the braking torque, which fades with the speed and ends where the "
+        "back-EMF falls to the brush drop, no longer exceeds the driving load (an overhauling load is held at "
+        "its lowering speed); give a higher n_end or another connection"
+    )
+
+
+def overspeed_margin(n_rpm: float, n_max_rpm: float) -> tuple[float, str]:
+    """Margin of a speed below the highest safe speed, and the verdict.
+
+    Parameters
+    ----------
+    n_rpm : float
+        Speed reached. [rpm]
+    n_max_rpm : float
+        Highest safe speed of motor, gearing and load, above zero. [rpm]
+
+    Returns
+    -------
+    tuple of (float, str)
+        :math:`n_{max} - n` [rpm] and ``"within n_max"`` or ``"OVERSPEED: above n_max"``.
+    """
+    n_max = require_positive("n_max", n_max_rpm, "rpm")
+    margin = n_max - n_rpm
+    return margin, "within n_max" if margin >= 0.0 else "OVERSPEED: above n_max"
