@@ -78,6 +78,7 @@ import numpy as np
 from .errors import (
     DesignError,
     InputError,
+    as_float_array,
     quantity,
     require_below,
     require_count,
@@ -98,6 +99,8 @@ __all__ = [
     "geometric_steps",
 ]
 
+#: Speeds accepted, as a multiple of synchronous speed either way: constant parameters hold no further. [-]
+MAX_SPEED_PER_SYNC = 2.0
 #: Most poles accepted: a 6 rpm motor at 50 Hz. [-]
 MAX_POLES = 1000
 
@@ -309,11 +312,20 @@ class WoundRotorMotor:
 
     def torque_at(self, n_rpm, r_external_ohm=0.0):
         """Torque at shaft speed(s) ``n_rpm`` with ``r_external_ohm`` (rotor side, per phase) in the rotor. [N·m]"""
-        return self.torque_nm(self.slip(n_rpm), self._r_referred(r_external_ohm))
+        return self.torque_nm(self._checked_slip(n_rpm), self._r_referred(r_external_ohm))
 
     def currents_at(self, n_rpm, r_external_ohm=0.0) -> RotorCurrents:
         """Currents and power factor at shaft speed(s) ``n_rpm`` with ``r_external_ohm`` (rotor side) in the rotor."""
-        return self.currents(self.slip(n_rpm), self._r_referred(r_external_ohm))
+        return self.currents(self._checked_slip(n_rpm), self._r_referred(r_external_ohm))
+
+    def _checked_slip(self, n_rpm):
+        """Slip at speeds within plus or minus twice synchronous speed (plugging to generating). [-]"""
+        speeds = as_float_array("speed", n_rpm, "rpm")
+        limit = MAX_SPEED_PER_SYNC * self.sync_speed_rpm
+        if np.any(np.abs(speeds) > limit):
+            worst = float(speeds[np.argmax(np.abs(speeds))])
+            raise InputError(f"speed ({quantity(worst, 'rpm')}) must lie within ±{quantity(limit, 'rpm')}, twice synchronous speed")
+        return self.slip(np.reshape(speeds, np.shape(n_rpm)))
 
     def _r_referred(self, r_external_ohm) -> float:
         r_ext = require_non_negative("r_external", r_external_ohm, "ohm")
@@ -329,8 +341,10 @@ class WoundRotorMotor:
 
     @property
     def breakdown_torque_nm(self) -> float:
-        """Breakdown (pull-out) torque, whatever the rotor resistance. [N·m]"""
-        return float(self.torque_at_r_over_s(self.breakdown_r_over_s_ohm))  # Eq. 6.38 of [1]
+        """Breakdown (pull-out) torque, whatever the rotor resistance; ``inf`` for a circuit without impedance. [N·m]"""
+        v_th, z_th = self._thevenin()
+        denominator = 2.0 * self.omega_sync_rad_s * (z_th.real + self.breakdown_r_over_s_ohm)
+        return 3.0 * abs(v_th) ** 2 / denominator if denominator > 0.0 else math.inf  # Eq. 6.38 of [1]
 
     def breakdown_slip(self, r_external_ohm=0.0) -> float:
         """Slip at breakdown torque with ``r_external_ohm`` (rotor side) in the rotor. [-]"""
@@ -484,7 +498,7 @@ def _torque_band(t_peak_nm, t_switch_nm, unit: str) -> tuple[float, float]:
 
 
 def grade_rotor(motor: WoundRotorMotor, t_peak_nm, t_switch_nm, steps=None) -> RotorGrading:
-    """Grade the rotor resistance sections of a wound-rotor motor by the torque limits.
+    r"""Grade the rotor resistance sections of a wound-rotor motor by the torque limits.
 
     Parameters
     ----------
@@ -601,8 +615,10 @@ def grade_rotor_plate(e_rotor_v, i_rotor_a, s_rated, t_peak, t_switch, steps=Non
     """
     e2 = require_positive("e_rotor", e_rotor_v, "V")
     i2 = require_positive("i_rotor", i_rotor_a, "A")
-    s_r = require_below("s_rated", require_positive("s_rated", s_rated, "-"), "1", 1.0, "-")
-    t1, t2 = _torque_band(t_peak, t_switch, "-")
+    s_r = require_positive("s_rated", s_rated)
+    if s_r >= 1.0:
+        raise InputError(f"s_rated ({quantity(s_r)}) must be below 1")
+    t1, t2 = _torque_band(t_peak, t_switch, "")
     r_unit = e2 / (math.sqrt(3.0) * i2)
     r_own = s_r * r_unit
     r_first = r_unit / t1

@@ -49,7 +49,8 @@ def voltage_dip(v_line_v, fault_level_mva, x_over_r, current_a, power_factor):
     x_over_r : float
         X/R ratio of the source impedance, at or above zero. [-]
     current_a : float or array_like
-        Line current the motor draws at full voltage (e.g. per step), at or above zero. [A]
+        Line current the motor draws at full voltage (e.g. per step), from zero to the
+        source's fault current :math:`S_{sc}/(\sqrt3 V)`. [A]
     power_factor : float
         Lagging power factor of that current, above 0 and at most 1. [-]
 
@@ -71,6 +72,12 @@ def voltage_dip(v_line_v, fault_level_mva, x_over_r, current_a, power_factor):
     if pf > 1.0:
         raise InputError(f"power_factor ({quantity(pf)}) must be at most 1")
     current = as_magnitudes("current", current_a, "A")
+    i_fault = s_sc / (math.sqrt(3.0) * v)
+    if np.any(current > i_fault):
+        raise InputError(
+            f"current ({quantity(float(np.max(current)), 'A')}) must not exceed the source's fault current "
+            f"({quantity(i_fault, 'A')}): check fault_level and v_line"
+        )
     z_source = v * v / s_sc
     r_source = z_source / math.hypot(1.0, ratio)
     source = complex(r_source, ratio * r_source)
