@@ -35,7 +35,7 @@ from memory), of which the external resistance takes
 :math:`s_e` (where :math:`T = T_L`) the integrand grows as
 :math:`1/(s - s_e)`; the substitution :math:`s = s_e + (s_a - s_e)e^u` makes
 it smooth, and a 48-point Gauss-Legendre rule in :math:`u` evaluates it
-([3]_, 25.4.29). On no load this gives the law
+([3]_, 25.4.29), one panel between each pair of a load table's corners. On no load this gives the law
 :math:`E_{rotor} = \tfrac12 J\omega_s^2 (s_a^2 - s_b^2)` whatever the
 resistance ([1]_, sec. on energy in starting, from memory).
 
@@ -166,13 +166,17 @@ class _Step:
     def integrals(self, s_end: float) -> tuple[float, float]:
         """Time [s] and whole-rotor energy [J] from the step's start to slip ``s_end`` (module docstring)."""
         width = self.s_a - self.s_eq
-        u_end = math.log((s_end - self.s_eq) / width)
-        u = 0.5 * u_end * (1.0 - _NODES)
+        # One Gauss-Legendre panel between each pair of the load table's corners, where the integrand has a kink.
+        corners = self.motor.slip(self.load.speed_rpm)
+        corners = corners[(corners > s_end) & (corners < self.s_a)]
+        bounds = np.log((np.sort(np.concatenate(([s_end], corners, [self.s_a]))) - self.s_eq) / width)
+        half = 0.5 * np.diff(bounds)[:, None]
+        u = (bounds[:-1, None] + half * (1.0 + _NODES)).ravel()
+        weights = (half * _WEIGHTS).ravel()
         s = self.s_eq + width * np.exp(u)
         torque = self.motor.torque_nm(s, self.r)
         dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_rpm(s)))
-        half = -0.5 * u_end
-        return half * float(_WEIGHTS @ dt_du), half * self.motor.omega_sync_rad_s * float(_WEIGHTS @ (dt_du * s * torque))
+        return float(weights @ dt_du), self.motor.omega_sync_rad_s * float(weights @ (dt_du * s * torque))
 
     def slip_after(self, dwell: float) -> float:
         """Slip reached after ``dwell`` seconds on this step (Brent's method on the time integral). [-]"""
