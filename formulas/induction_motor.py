@@ -71,7 +71,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 
@@ -164,6 +164,8 @@ class WoundRotorMotor:
     poles: int
     e_rotor_v: float
     inertia_kgm2: float
+    _v_th: complex = field(init=False, repr=False, compare=False)
+    _z_th: complex = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
         checks = {
@@ -183,6 +185,11 @@ class WoundRotorMotor:
         if poles % 2:
             raise InputError(f"poles ({poles}) must be an even number")
         object.__setattr__(self, "poles", poles)
+        z1 = complex(self.r_stator_ohm, self.x_stator_ohm)
+        zm = complex(0.0, self.x_magnetizing_ohm)
+        divider = zm / (z1 + zm)
+        object.__setattr__(self, "_v_th", self.v_phase_v * divider)  # Eq. 6.34 of [1]
+        object.__setattr__(self, "_z_th", z1 * divider)  # Eq. 6.35 of [1]
 
     # --- the circuit --------------------------------------------------------------------------------------------
 
@@ -203,10 +210,7 @@ class WoundRotorMotor:
 
     def _thevenin(self) -> tuple[complex, complex]:
         """Thevenin phase voltage [V] and impedance [ohm] of the stator network seen by the rotor."""
-        z1 = complex(self.r_stator_ohm, self.x_stator_ohm)
-        zm = complex(0.0, self.x_magnetizing_ohm)
-        divider = zm / (z1 + zm)
-        return self.v_phase_v * divider, z1 * divider  # Eqs. 6.34 and 6.35 of [1]
+        return self._v_th, self._z_th
 
     @property
     def v_thevenin_v(self) -> float:

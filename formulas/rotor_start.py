@@ -146,6 +146,7 @@ class _Step:
 
     def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float):
         self.motor, self.load, self.r, self.s_a = motor, load, r_referred, s_start
+        self.constant_load = load.constant
         self.s_eq = self._equilibrium_slip()
 
     def net_nm(self, s):
@@ -154,7 +155,7 @@ class _Step:
 
     def _equilibrium_slip(self) -> float:
         """The first slip below the step's start at which the motor torque meets the load. [-]"""
-        if self.load.constant:
+        if self.constant_load:
             t_load = float(self.load.torque_nm[0])
             if t_load == 0.0:
                 return 0.0
@@ -167,10 +168,12 @@ class _Step:
         """Time [s] and whole-rotor energy [J] from the step's start to slip ``s_end`` (module docstring)."""
         width = self.s_a - self.s_eq
         # One Gauss-Legendre panel between each pair of the load table's corners, where the integrand has a kink.
-        corners = self.motor.slip(self.load.speed_rpm)
-        corners = corners[(corners > s_end) & (corners < self.s_a)]
-        bounds = np.log((np.sort(np.concatenate(([s_end], corners, [self.s_a]))) - self.s_eq) / width)
-        half = 0.5 * np.diff(bounds)[:, None]
+        ends = [s_end, self.s_a]
+        if not self.constant_load:
+            corners = self.motor.slip(self.load.speed_rpm)
+            ends = np.sort(np.concatenate((ends, corners[(corners > s_end) & (corners < self.s_a)])))
+        bounds = np.log((np.asarray(ends) - self.s_eq) / width)
+        half = 0.5 * (bounds[1:] - bounds[:-1])[:, None]
         u = (bounds[:-1, None] + half * (1.0 + _NODES)).ravel()
         weights = (half * _WEIGHTS).ravel()
         s = self.s_eq + width * np.exp(u)

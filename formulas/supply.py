@@ -67,8 +67,8 @@ def voltage_dip(v_line_v, fault_level_mva, x_over_r, current_a, power_factor):
     """
     v = require_positive("v_line", v_line_v, "V")
     s_sc = require_positive("fault_level", fault_level_mva, "MVA") * 1e6
-    ratio = require_non_negative("x_over_r", x_over_r, "-")
-    pf = require_positive("power_factor", power_factor, "-")
+    ratio = require_non_negative("x_over_r", x_over_r)
+    pf = require_positive("power_factor", power_factor)
     if pf > 1.0:
         raise InputError(f"power_factor ({quantity(pf)}) must be at most 1")
     current = as_magnitudes("current", current_a, "A")
