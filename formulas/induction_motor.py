@@ -10,7 +10,7 @@ own uncertainty. Saturation of the leakage paths and skin effect in the rotor
 bars are left out too: the parameters are constant.
 
 Seen from the rotor, the stator network reduces to its Thevenin equivalent
-([1]_, sec. 6.6, Eqs. 6.34-6.36; equation numbers from memory)
+([1]_, sec. 6.5, Eqs. 6.34-6.36; section and equation numbers from memory)
 
 .. math::
 
@@ -56,9 +56,10 @@ Brent's method).
 References
 ----------
 .. [1] A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, *Electric Machinery*,
-   6th ed., McGraw-Hill, 2003, sec. 6.5 (equivalent circuit) and 6.6
-   (torque and power by Thevenin's theorem), sec. 6.7.1 (wound-rotor speed
-   control by rotor resistance).
+   6th ed., McGraw-Hill, 2003, ch. 6: sec. 6.3 (equivalent circuit), 6.4
+   (analysis, air-gap power), 6.5 (torque and power by Thevenin's theorem,
+   Eqs. 6.34-6.38), 6.7 (effects of rotor resistance, wound rotors); section
+   and equation numbers from memory, not verified against the page.
 .. [2] *IEEE Standard Test Procedure for Polyphase Induction Motors and
    Generators*, IEEE Std 112-2017, clause 9 (equivalent circuit).
 .. [3] *Rotating electrical machines - Part 28: Test methods for determining
@@ -302,14 +303,14 @@ class WoundRotorMotor:
             I_1 = \frac{V_1}{Z},\quad I_2' = I_1\,\frac{jX_m}{jX_m + R'/s + jX_2'},\quad
             I_2 = a I_2'
 
-        ([1]_, sec. 6.5, Fig. 6.11 circuit; the rotor admittance is written in
-        :math:`s` so that :math:`s = 0` is no load.)
+        ([1]_, sec. 6.3, the equivalent circuit; the rotor admittance is written
+        in :math:`s` so that :math:`s = 0` is no load.)
         """
         s = np.asarray(slip, dtype=float)
         r = np.asarray(r_referred_ohm, dtype=float)
         y_rotor = s / (r + 1j * self.x_rotor_ohm * s)
         y_air = 1.0 / complex(0.0, self.x_magnetizing_ohm) + y_rotor
-        z = complex(self.r_stator_ohm, self.x_stator_ohm) + 1.0 / y_air  # Fig. 6.11 of [1]
+        z = complex(self.r_stator_ohm, self.x_stator_ohm) + 1.0 / y_air  # sec. 6.3 of [1]: the T circuit
         i_stator = self.v_phase_v / z
         i_rotor = i_stator / y_air * y_rotor
         return RotorCurrents(np.abs(i_stator), self.ratio * np.abs(i_rotor), z.real / np.abs(z))
@@ -386,7 +387,7 @@ class WoundRotorMotor:
 
         .. math:: (R_{th} + x)^2 + X^2 = (a V_{th} / I_2)^2
 
-        (the Thevenin rotor current, [1]_ sec. 6.6). [ohm]
+        (the Thevenin rotor current, [1]_ sec. 6.5). [ohm]
 
         Raises
         ------

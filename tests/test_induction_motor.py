@@ -22,7 +22,7 @@ SLIPS = np.linspace(-0.5, 1.5, 41)
 
 class TestCircuit:
     def test_thevenin_torque_equals_air_gap_power_of_the_full_circuit(self):
-        """Closed form: P_ag = 3 I2'^2 R2'/s (Fitzgerald et al., Electric Machinery, 6th ed., 2003, Eq. 6.25),
+        """Closed form: P_ag = 3 I2'^2 R2'/s (Fitzgerald et al., Electric Machinery, 6th ed., 2003, sec. 6.4; from memory),
         T = P_ag/omega_s; the full T circuit's rotor current against the Thevenin torque."""
         s = SLIPS[SLIPS != 0.0]
         r = 0.3
