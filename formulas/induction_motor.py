@@ -73,6 +73,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import ClassVar
 
 import numpy as np
 
@@ -165,6 +166,9 @@ class WoundRotorMotor:
     poles: int
     e_rotor_v: float
     inertia_kgm2: float
+    #: The machine interface's name for this kind, and its runaway flag (it has a synchronous speed).
+    kind: ClassVar[str] = "wound rotor"
+    runs_away_unloaded: ClassVar[bool] = False
     _v_th: complex = field(init=False, repr=False, compare=False)
     _z_th: complex = field(init=False, repr=False, compare=False)
 
@@ -236,17 +240,22 @@ class WoundRotorMotor:
         """The rotor's own resistance per phase, rotor side. [ohm]"""
         return float(self.to_rotor_side_ohm(self.r_rotor_ohm))
 
+    @property
+    def r_ohm(self) -> float:
+        """The machine's own resistance in the starter's circuit, as the sections are given: rotor side. [ohm]"""
+        return self.r_rotor_side_ohm
+
     def slip(self, n_rpm):
         """Slip at shaft speed ``n_rpm``, :math:`s = 1 - n/n_s`. [-]"""
         return 1.0 - np.asarray(n_rpm, dtype=float) / self.sync_speed_rpm
 
-    def speed_rpm(self, slip):
+    def speed_at_slip_rpm(self, slip):
         """Shaft speed at ``slip``. [rpm]"""
         return self.sync_speed_rpm * (1.0 - np.asarray(slip, dtype=float))
 
     # --- torque and currents -----------------------------------------------------------------------------------
 
-    def torque_nm(self, slip, r_referred_ohm):
+    def torque_at_slip_nm(self, slip, r_referred_ohm):
         r"""Air-gap torque at a slip with a rotor resistance in circuit, vectorised.
 
         Parameters
@@ -278,7 +287,7 @@ class WoundRotorMotor:
 
     def torque_at_r_over_s(self, x_ohm):
         """Torque as a function of :math:`x = R'/s` alone (module docstring). [N·m]"""
-        return self.torque_nm(1.0, x_ohm)
+        return self.torque_at_slip_nm(1.0, x_ohm)
 
     def currents(self, slip, r_referred_ohm) -> RotorCurrents:
         r"""Stator and rotor currents and power factor of the full T circuit, vectorised over slip.
@@ -317,7 +326,7 @@ class WoundRotorMotor:
 
     def torque_at(self, n_rpm, r_external_ohm=0.0):
         """Torque at shaft speed(s) ``n_rpm`` with ``r_external_ohm`` (rotor side, per phase) in the rotor. [N·m]"""
-        return self.torque_nm(self._checked_slip(n_rpm), self._r_referred(r_external_ohm))
+        return self.torque_at_slip_nm(self._checked_slip(n_rpm), self._r_referred(r_external_ohm))
 
     def currents_at(self, n_rpm, r_external_ohm=0.0) -> RotorCurrents:
         """Currents and power factor at shaft speed(s) ``n_rpm`` with ``r_external_ohm`` (rotor side) in the rotor."""
@@ -545,7 +554,7 @@ def grade_rotor(motor: WoundRotorMotor, t_peak_nm, t_switch_nm, steps=None) -> R
         r_section_ohm=-np.diff(r),
         t_peak_nm=np.full(count, t_peak),
         t_switch_nm=np.full(count, motor.torque_at_r_over_s(x_switch)),
-        n_cut_rpm=motor.speed_rpm(motor.to_stator_side_ohm(r[:-1]) / x_switch),
+        n_cut_rpm=motor.speed_at_slip_rpm(motor.to_stator_side_ohm(r[:-1]) / x_switch),
         i_rotor_peak_a=np.full(count, float(peak.rotor_a)),
         i_stator_peak_a=np.full(count, float(peak.stator_a)),
         r_rotor_ohm=motor.r_rotor_side_ohm,
@@ -730,9 +739,9 @@ def check_rotor(motor: WoundRotorMotor, sections_ohm, t_switch_nm, t_limit_nm, i
         slip = rk / x_end[k]
     passes_breakdown = (x_start <= x_star) & (x_star <= x_end)
     start, end = _slip_and_r(x_start), _slip_and_r(x_end)
-    t_peak = np.where(passes_breakdown, t_max, np.maximum(motor.torque_nm(*start), motor.torque_nm(*end)))
+    t_peak = np.where(passes_breakdown, t_max, np.maximum(motor.torque_at_slip_nm(*start), motor.torque_at_slip_nm(*end)))
     i_peak = np.maximum(motor.currents(*start).stator_a, motor.currents(*end).stator_a)
-    n_cut = motor.speed_rpm(r_ref[:-1] / x_end[:-1])
+    n_cut = motor.speed_at_slip_rpm(r_ref[:-1] / x_end[:-1])
     verdict = tuple(
         _verdict(t, i, t_limit, i_limit, cut_at_once=k < sections.size and x_start[k] >= x_cut)
         for k, (t, i) in enumerate(zip(t_peak, i_peak))

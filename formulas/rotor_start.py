@@ -7,7 +7,7 @@ One state, the shaft speed [1]_:
     J\,\frac{d\omega}{dt} = T(s, R_k') - T_L(n), \qquad s = 1 - \frac{\omega}{\omega_s},
 
 with :math:`T(s, R')` the steady-state torque of the T circuit
-(:meth:`WoundRotorMotor.torque_nm`), :math:`R_k'` the whole rotor resistance
+(:meth:`WoundRotorMotor.torque_at_slip_nm`), :math:`R_k'` the whole rotor resistance
 on step :math:`k`, :math:`J` the inertia of motor and load and :math:`T_L` the
 load torque (a number or a speed/torque table, :func:`load_torque`).
 
@@ -151,7 +151,7 @@ class _Step:
 
     def net_nm(self, s):
         """Accelerating torque at slip ``s``. [N·m]"""
-        return self.motor.torque_nm(s, self.r) - self.load.at(self.motor.speed_rpm(s))
+        return self.motor.torque_at_slip_nm(s, self.r) - self.load.at(self.motor.speed_at_slip_rpm(s))
 
     def _equilibrium_slip(self) -> float:
         """The first slip below the step's start at which the motor torque meets the load. [-]"""
@@ -177,8 +177,8 @@ class _Step:
         u = (bounds[:-1, None] + half * (1.0 + _NODES)).ravel()
         weights = (half * _WEIGHTS).ravel()
         s = self.s_eq + width * np.exp(u)
-        torque = self.motor.torque_nm(s, self.r)
-        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_rpm(s)))
+        torque = self.motor.torque_at_slip_nm(s, self.r)
+        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
         return float(weights @ dt_du), self.motor.omega_sync_rad_s * float(weights @ (dt_du * s * torque))
 
     def slip_after(self, dwell: float) -> float:
@@ -248,10 +248,10 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         step = _Step(motor, torque_load, float(r_ref[k]), s_a)
         net = float(step.net_nm(s_a))
         if net <= 0.0:
-            where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(float(motor.speed_rpm(s_a)), 'rpm')}: the torque"
+            where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(float(motor.speed_at_slip_rpm(s_a)), 'rpm')}: the torque"
             raise DesignError(
-                f"step {k + 1} stalls {where} ({quantity(net + float(torque_load.at(motor.speed_rpm(s_a))), 'N·m')}) "
-                f"is not above the load ({quantity(float(torque_load.at(motor.speed_rpm(s_a))), 'N·m')})"
+                f"step {k + 1} stalls {where} ({quantity(net + float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')}) "
+                f"is not above the load ({quantity(float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')})"
             )
         steps.append(step)
         if k == count:
@@ -260,7 +260,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
             s_b = min(s_a, step.r / x_cut)
             if s_b <= step.s_eq:
                 raise DesignError(
-                    f"step {k + 1} stalls: the torque meets the load at {quantity(float(motor.speed_rpm(step.s_eq)), 'rpm')} "
+                    f"step {k + 1} stalls: the torque meets the load at {quantity(float(motor.speed_at_slip_rpm(step.s_eq)), 'rpm')} "
                     f"before the rotor current falls to i_cut ({quantity(i_cut_a, 'A')}): raise i_cut or lighten the load"
                 )
         else:
@@ -283,12 +283,12 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         i_peak_a=at_start.rotor_a[:-1],
         i_cut_a=at_end.rotor_a[:-1],
         i_stator_peak_a=stator_peak[:-1],
-        n_cut_rpm=motor.speed_rpm(s_cut),
+        n_cut_rpm=motor.speed_at_slip_rpm(s_cut),
         s_cut=s_cut,
         energy_rotor_j=e_rotor,
         energy_step_j=e_rotor * (1.0 - motor.r_rotor_side_ohm / r[:-1]),
         i_peak_run_a=float(at_start.rotor_a[-1]),
         i_stator_peak_run_a=float(stator_peak[-1]),
         t_accel_s=float(t_accel),
-        n_final_rpm=float(motor.speed_rpm(run.s_eq)),
+        n_final_rpm=float(motor.speed_at_slip_rpm(run.s_eq)),
     )

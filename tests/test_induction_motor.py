@@ -27,19 +27,19 @@ class TestCircuit:
         s = SLIPS[SLIPS != 0.0]
         r = 0.3
         i2_referred = MOTOR.currents(s, r).rotor_a / MOTOR.ratio
-        np.testing.assert_allclose(MOTOR.torque_nm(s, r), 3.0 * i2_referred**2 * r / s / MOTOR.omega_sync_rad_s, rtol=1e-12)
+        np.testing.assert_allclose(MOTOR.torque_at_slip_nm(s, r), 3.0 * i2_referred**2 * r / s / MOTOR.omega_sync_rad_s, rtol=1e-12)
 
     def test_power_balance_at_the_stator_terminals(self):
         """Closed form, iron loss left out: input 3 V I cos(phi) less stator copper loss is the air-gap power."""
         s, r = SLIPS[SLIPS != 0.0], 0.1
         c = MOTOR.currents(s, r)
         p_in = 3.0 * MOTOR.v_phase_v * c.stator_a * c.power_factor
-        p_ag = MOTOR.torque_nm(s, r) * MOTOR.omega_sync_rad_s
+        p_ag = MOTOR.torque_at_slip_nm(s, r) * MOTOR.omega_sync_rad_s
         np.testing.assert_allclose(p_in - 3.0 * c.stator_a**2 * MOTOR.r_stator_ohm, p_ag, rtol=1e-10, atol=1e-6)
 
     def test_breakdown_slip_and_torque_against_scipy(self):
         """Closed form s_max = R2'/sqrt(Rth^2 + (Xth + X2')^2) against scipy.optimize.minimize_scalar."""
-        found = minimize_scalar(lambda s: -MOTOR.torque_nm(s, MOTOR.r_rotor_ohm), bounds=(1e-4, 1.0), method="bounded",
+        found = minimize_scalar(lambda s: -MOTOR.torque_at_slip_nm(s, MOTOR.r_rotor_ohm), bounds=(1e-4, 1.0), method="bounded",
                                 options={"xatol": 1e-12})
         assert MOTOR.breakdown_slip() == pytest.approx(found.x, rel=1e-6)
         assert MOTOR.breakdown_torque_nm == pytest.approx(-found.fun, rel=1e-10)
@@ -53,12 +53,12 @@ class TestCircuit:
 
     def test_torque_and_current_depend_on_r_over_s_alone(self):
         for s in (1.0, 0.4, 0.05):
-            assert MOTOR.torque_nm(s, 0.5 * s) == pytest.approx(MOTOR.torque_nm(1.0, 0.5), rel=1e-12)
+            assert MOTOR.torque_at_slip_nm(s, 0.5 * s) == pytest.approx(MOTOR.torque_at_slip_nm(1.0, 0.5), rel=1e-12)
             assert MOTOR.currents(s, 0.5 * s).stator_a == pytest.approx(float(MOTOR.currents(1.0, 0.5).stator_a), rel=1e-12)
 
     def test_speed_form_and_external_resistance(self):
         n = np.array([0.0, 400.0, 990.0, 1000.0])
-        expected = MOTOR.torque_nm(1.0 - n / 1000.0, MOTOR.r_rotor_ohm + MOTOR.ratio**2 * 0.2)
+        expected = MOTOR.torque_at_slip_nm(1.0 - n / 1000.0, MOTOR.r_rotor_ohm + MOTOR.ratio**2 * 0.2)
         np.testing.assert_allclose(MOTOR.torque_at(n, 0.2), expected, rtol=1e-13)
         assert MOTOR.torque_at(1000.0) == 0.0 and float(MOTOR.currents_at(1000.0).rotor_a) == 0.0
 
@@ -71,11 +71,11 @@ class TestCircuit:
         assert book._thevenin()[1].real == pytest.approx(0.590, abs=5e-4)  # exact in both: 3 digits printed
         assert book.breakdown_slip() == pytest.approx(0.198, rel=0.03)
         assert book.breakdown_torque_nm == pytest.approx(229.0, rel=0.03)
-        assert book.torque_nm(1.0, 0.332) == pytest.approx(104.0, rel=0.03)
+        assert book.torque_at_slip_nm(1.0, 0.332) == pytest.approx(104.0, rel=0.03)
         doubled = WoundRotorMotor(0.641, 1.106, 26.3, 0.664, 0.464, 460.0, 60.0, 4, 460.0, 1.0)
         assert doubled.breakdown_slip() == pytest.approx(2.0 * book.breakdown_slip(), rel=1e-12)  # s_max ∝ R2, exact
         assert doubled.breakdown_torque_nm == pytest.approx(book.breakdown_torque_nm, rel=1e-12)
-        assert doubled.torque_nm(1.0, 0.664) == pytest.approx(170.0, rel=0.03)
+        assert doubled.torque_at_slip_nm(1.0, 0.664) == pytest.approx(170.0, rel=0.03)
 
     def test_inverse_laws_round_trip(self):
         for t in (1000.0, 5000.0, 8000.0):
@@ -92,8 +92,8 @@ class TestGrading:
         r = MOTOR.to_stator_side_ohm(np.append(g.r_total_ohm, g.r_rotor_ohm))
         np.testing.assert_allclose(r[1:] / r[:-1], r[1] / r[0], rtol=1e-12)
         s_cut = MOTOR.slip(g.n_cut_rpm)
-        np.testing.assert_allclose(MOTOR.torque_nm(s_cut, r[:-1]), g.t_switch_nm, rtol=1e-10)
-        np.testing.assert_allclose(MOTOR.torque_nm(np.append(1.0, s_cut), r), 6000.0, rtol=1e-10)
+        np.testing.assert_allclose(MOTOR.torque_at_slip_nm(s_cut, r[:-1]), g.t_switch_nm, rtol=1e-10)
+        np.testing.assert_allclose(MOTOR.torque_at_slip_nm(np.append(1.0, s_cut), r), 6000.0, rtol=1e-10)
         assert g.t_switch_nm[0] >= 3500.0
         x1, x2 = MOTOR.r_over_s_at_torque(6000.0), MOTOR.r_over_s_at_torque(3500.0)
         assert g.steps == math.ceil(math.log(r[0] / r[-1]) / math.log(x2 / x1))
@@ -158,7 +158,7 @@ class TestPlateMethod:
         ideal = WoundRotorMotor(**{**PARAMS, "r_stator_ohm": 0.0, "x_stator_ohm": 0.0, "x_rotor_ohm": 0.0,
                                    "x_magnetizing_ohm": 1e12})
         s_rated = 0.02
-        t_rated = ideal.torque_nm(s_rated, ideal.r_rotor_ohm)
+        t_rated = ideal.torque_at_slip_nm(s_rated, ideal.r_rotor_ohm)
         i_rated = float(ideal.currents(s_rated, ideal.r_rotor_ohm).rotor_a)
         circuit = grade_rotor(ideal, 2.0 * t_rated, 1.2 * t_rated)
         plate = grade_rotor_plate(750.0, i_rated, s_rated, 2.0, 1.2)
@@ -169,7 +169,7 @@ class TestPlateMethod:
     def test_departs_from_the_circuit_where_reactance_matters(self):
         """With this motor's reactance the plate method's step-1 resistance is well off the circuit's."""
         s_rated = 0.015
-        t_rated = MOTOR.torque_nm(s_rated, MOTOR.r_rotor_ohm)
+        t_rated = MOTOR.torque_at_slip_nm(s_rated, MOTOR.r_rotor_ohm)
         i_rated = float(MOTOR.currents(s_rated, MOTOR.r_rotor_ohm).rotor_a)
         circuit = grade_rotor(MOTOR, 2.0 * t_rated, 1.2 * t_rated)
         plate = grade_rotor_plate(750.0, i_rated, s_rated, 2.0, 1.2)

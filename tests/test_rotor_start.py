@@ -31,7 +31,7 @@ def reference(sections, load, i_cut=None, dwells=None):
         def rhs(t, y):
             s = 1.0 - y[0] / omega_s
             i2 = float(MOTOR.currents(s, r_ref).rotor_a)
-            return [(MOTOR.torque_nm(s, r_ref) - load_at(y[0] * 30.0 / np.pi)) / j, 3.0 * i2 * i2 * (r - MOTOR.r_rotor_side_ohm)]
+            return [(MOTOR.torque_at_slip_nm(s, r_ref) - load_at(y[0] * 30.0 / np.pi)) / j, 3.0 * i2 * i2 * (r - MOTOR.r_rotor_side_ohm)]
 
         def cut(t, y):
             return float(MOTOR.currents(1.0 - y[0] / omega_s, r_ref).rotor_a) - i_cut
@@ -101,7 +101,7 @@ class TestStart:
         omega_s = MOTOR.omega_sync_rad_s
         settled = lambda t, y: y[0] - 0.98 * result.n_final_rpm * np.pi / 30.0  # noqa: E731
         settled.terminal = True
-        sol = solve_ivp(lambda t, y: [(MOTOR.torque_nm(1.0 - y[0] / omega_s, MOTOR.r_rotor_ohm) - 1000.0) / 60.0],
+        sol = solve_ivp(lambda t, y: [(MOTOR.torque_at_slip_nm(1.0 - y[0] / omega_s, MOTOR.r_rotor_ohm) - 1000.0) / 60.0],
                         (0.0, 50.0), [result.n_cut_rpm[-1] * np.pi / 30.0], method="DOP853", rtol=1e-12, atol=1e-10, events=settled)
         assert result.t_accel_s - t_end == pytest.approx(sol.t[-1], rel=1e-8)
 
