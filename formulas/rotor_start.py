@@ -75,7 +75,8 @@ from scipy.optimize import brentq
 from .errors import DesignError, InputError, as_float_array, quantity, require_positive
 from .grading import checked_sections, notch_resistances_ohm
 from .induction_motor import WoundRotorMotor
-from .start_sim import SETTLED_FRACTION, LoadTorque, load_torque
+from .start_load import LoadTorque, load_torque
+from .start_notch import SETTLED_FRACTION
 
 __all__ = ["RotorStart", "simulate_rotor_start", "QUADRATURE_POINTS"]
 
