@@ -99,10 +99,15 @@ __all__ = [
     "RotorCheck",
     "check_rotor",
     "geometric_steps",
+    "rotor_sections",
 ]
 
 #: Speeds accepted, as a multiple of synchronous speed either way: constant parameters hold no further. [-]
 MAX_SPEED_PER_SYNC = 2.0
+#: Highest resistance or reactance accepted, per phase, either side. [ohm]
+MAX_OHM = 1e6
+#: Least torque asked of the inverse law, as a fraction of breakdown torque. [-]
+LEAST_TORQUE_FRACTION = 1e-9
 #: Most poles accepted: a 6 rpm motor at 50 Hz. [-]
 MAX_POLES = 1000
 
@@ -173,19 +178,23 @@ class WoundRotorMotor:
     _z_th: complex = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
+        # Limits far beyond any slip-ring motor, so that no figure overflows (common practice, no source).
         checks = {
-            "r_stator_ohm": ("r_stator", "ohm", require_non_negative),
-            "x_stator_ohm": ("x_stator", "ohm", require_non_negative),
-            "x_magnetizing_ohm": ("x_magnetizing", "ohm", require_positive),
-            "r_rotor_ohm": ("r_rotor", "ohm", require_positive),
-            "x_rotor_ohm": ("x_rotor", "ohm", require_non_negative),
-            "v_line_v": ("v_line", "V", require_positive),
-            "frequency_hz": ("frequency", "Hz", require_positive),
-            "e_rotor_v": ("e_rotor", "V", require_positive),
-            "inertia_kgm2": ("inertia", "kg·m²", require_positive),
+            "r_stator_ohm": ("r_stator", "ohm", 0.0, MAX_OHM),
+            "x_stator_ohm": ("x_stator", "ohm", 0.0, MAX_OHM),
+            "x_magnetizing_ohm": ("x_magnetizing", "ohm", 1e-6, MAX_OHM),
+            "r_rotor_ohm": ("r_rotor", "ohm", 1e-9, MAX_OHM),
+            "x_rotor_ohm": ("x_rotor", "ohm", 0.0, MAX_OHM),
+            "v_line_v": ("v_line", "V", 1.0, 1e6),
+            "frequency_hz": ("frequency", "Hz", 1.0, 1e4),
+            "e_rotor_v": ("e_rotor", "V", 1.0, 1e6),
+            "inertia_kgm2": ("inertia", "kg·m²", 1e-6, 1e9),
         }
-        for attribute, (name, unit, check) in checks.items():
-            object.__setattr__(self, attribute, check(name, getattr(self, attribute), unit))
+        for attribute, (name, unit, least, most) in checks.items():
+            value = (require_non_negative if least == 0.0 else require_positive)(name, getattr(self, attribute), unit)
+            if not least <= value <= most:
+                raise InputError(f"{name} ({quantity(value, unit)}) must be from {quantity(least, unit)} to {quantity(most, unit)}")
+            object.__setattr__(self, attribute, value)
         poles = require_count("poles", self.poles, 2, MAX_POLES)
         if poles % 2:
             raise InputError(f"poles ({poles}) must be an even number")
@@ -343,6 +352,8 @@ class WoundRotorMotor:
 
     def _r_referred(self, r_external_ohm) -> float:
         r_ext = require_non_negative("r_external", r_external_ohm, "ohm")
+        if r_ext > MAX_OHM:
+            raise InputError(f"r_external ({quantity(r_ext, 'ohm')}) must be at most {quantity(MAX_OHM, 'ohm')}")
         return self.r_rotor_ohm + float(self.to_stator_side_ohm(r_ext))
 
     # --- breakdown and the inverse laws ------------------------------------------------------------------------
@@ -385,6 +396,11 @@ class WoundRotorMotor:
             raise DesignError(
                 f"the torque asked ({quantity(torque_nm, 'N·m')}) is above the breakdown torque "
                 f"({quantity(t_max, 'N·m')}): no rotor resistance gives it"
+            )
+        if math.isfinite(t_max) and torque_nm < LEAST_TORQUE_FRACTION * t_max:
+            raise DesignError(
+                f"the torque asked ({quantity(torque_nm, 'N·m')}) is below a billionth of the breakdown torque "
+                f"({quantity(t_max, 'N·m')}): enter it in N·m"
             )
         k = 3.0 * abs(v_th) ** 2 / self.omega_sync_rad_s
         b = k - 2.0 * torque_nm * z_th.real
@@ -449,9 +465,9 @@ def geometric_steps(r_first: float, r_last: float, ratio: float, steps=None, lim
     ratio : float
         Requested ratio :math:`q < 1` (the smallest allowed). [-]
     steps : int, optional
-        Fixed number of steps.
+        Fixed number of steps. [-]
     limit_text : str
-        What keeps the ratio, for the message (``t_switch (300 N·m)``).
+        What keeps the ratio, for the message (``t_switch (300 N·m)``). [-]
 
     Returns
     -------
@@ -517,13 +533,13 @@ def grade_rotor(motor: WoundRotorMotor, t_peak_nm, t_switch_nm, steps=None) -> R
     Parameters
     ----------
     motor : WoundRotorMotor
-        The machine.
+        The machine. [-]
     t_peak_nm : float
         Torque at the start of every step, the upper limit. [N·m]
     t_switch_nm : float
         Least torque at which a step may be cut out. [N·m]
     steps : int, optional
-        Fixed number of steps; by default the fewest that keep ``t_switch_nm``.
+        Fixed number of steps; by default the fewest that keep ``t_switch_nm``. [-]
 
     Returns
     -------
@@ -605,7 +621,7 @@ def grade_rotor_plate(e_rotor_v, i_rotor_a, s_rated, t_peak, t_switch, steps=Non
         Torque at the start of every step and least torque at cut-out, as
         fractions of rated torque (2 = 200 %). [-]
     steps : int, optional
-        Fixed number of steps.
+        Fixed number of steps. [-]
 
     Returns
     -------
@@ -693,7 +709,7 @@ def check_rotor(motor: WoundRotorMotor, sections_ohm, t_switch_nm, t_limit_nm, i
     Parameters
     ----------
     motor : WoundRotorMotor
-        The machine.
+        The machine. [-]
     sections_ohm : array_like
         Sections, rotor side, per phase, in the order they are cut out. [ohm]
     t_switch_nm : float
@@ -722,7 +738,7 @@ def check_rotor(motor: WoundRotorMotor, sections_ohm, t_switch_nm, t_limit_nm, i
 
     The run (the rotor's own resistance) is followed to synchronous speed.
     """
-    sections = checked_sections(sections_ohm)
+    sections = rotor_sections(sections_ohm)
     t_switch = require_positive("t_switch", t_switch_nm, "N·m")
     t_limit = require_positive("t_limit", t_limit_nm, "N·m")
     i_limit = require_positive("i_limit", i_limit_a, "A")
@@ -753,6 +769,26 @@ def _slip_and_r(x_ohm: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """A slip [-] and resistance [ohm] pair with the ratio :math:`x = R'/s` (``inf``: synchronous speed)."""
     at_sync = np.isinf(x_ohm)
     return np.where(at_sync, 0.0, 1.0), np.where(at_sync, 1.0, x_ohm)
+
+
+def rotor_sections(sections_ohm) -> np.ndarray:
+    """Rotor sections as an array, each above zero and at most :data:`MAX_OHM`.
+
+    Parameters
+    ----------
+    sections_ohm : array_like
+        Sections per phase, rotor side, in the order they are cut out. [ohm]
+
+    Returns
+    -------
+    numpy.ndarray
+        The sections. [ohm]
+    """
+    sections = checked_sections(sections_ohm)
+    if np.any(sections > MAX_OHM):
+        k = int(np.argmax(sections > MAX_OHM))
+        raise InputError(f"sections entry {k + 1} ({quantity(sections[k], 'ohm')}) must be at most {quantity(MAX_OHM, 'ohm')}")
+    return sections
 
 
 def _verdict(t_peak: float, i_peak: float, t_limit: float, i_limit: float, cut_at_once: bool) -> str:

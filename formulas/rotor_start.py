@@ -73,8 +73,8 @@ import numpy as np
 from scipy.optimize import brentq
 
 from .errors import DesignError, InputError, as_float_array, quantity, require_positive
-from .grading import checked_sections, notch_resistances_ohm
-from .induction_motor import WoundRotorMotor
+from .grading import notch_resistances_ohm
+from .induction_motor import WoundRotorMotor, rotor_sections
 from .start_load import LoadTorque, load_torque
 from .start_notch import SETTLED_FRACTION
 
@@ -198,7 +198,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     Parameters
     ----------
     motor : WoundRotorMotor
-        The machine, with the inertia of motor and load.
+        The machine, with the inertia of motor and load. [-]
     sections_ohm : array_like
         Rotor sections, rotor side, per phase, in the order they are cut out. [ohm]
     load : float or array_like
@@ -226,7 +226,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         Standstill torque at or below the load, a step that stalls, or a cut
         after which the motor would slow down.
     """
-    sections = checked_sections(sections_ohm)
+    sections = rotor_sections(sections_ohm)
     torque_load = load_torque(load)
     if (i_cut_a is None) == (dwell_s is None):
         raise InputError("give either i_cut (current-limit switching) or dwell (definite-time switching), not both or neither")

@@ -156,7 +156,7 @@ class TestPlateMethod:
         """Limit: no stator impedance, no leakage, infinite magnetizing reactance: T = 3 V^2 s/(omega_s R'),
         exactly torque proportional to slip over resistance, so both methods give the same sections."""
         ideal = WoundRotorMotor(**{**PARAMS, "r_stator_ohm": 0.0, "x_stator_ohm": 0.0, "x_rotor_ohm": 0.0,
-                                   "x_magnetizing_ohm": 1e12})
+                                   "x_magnetizing_ohm": 1e6})
         s_rated = 0.02
         t_rated = ideal.torque_at_slip_nm(s_rated, ideal.r_rotor_ohm)
         i_rated = float(ideal.currents(s_rated, ideal.r_rotor_ohm).rotor_a)
@@ -231,12 +231,23 @@ class TestCheck:
         ("poles", 5, InputError, "poles (5) must be an even number"),
         ("poles", 2.5, InputError, "poles (2.5) must be a whole number"),
         ("inertia_kgm2", True, InputTypeError, "inertia (True) is not a number"),
+        ("v_line_v", 1e300, InputError, "v_line (1e+300 V) must be from 1 V to 1e+06 V"),
+        ("frequency_hz", 1e-300, InputError, "frequency (1e-300 Hz) must be from 1 Hz to 1e+04 Hz"),
     ],
 )
 def test_bad_motor_data_name_the_field(name, bad, error, words):
     with pytest.raises(error) as caught:
         WoundRotorMotor(**{**PARAMS, name: bad})
     assert words in str(caught.value)
+
+
+def test_torque_too_small_and_sections_too_large_are_refused():
+    with pytest.raises(DesignError, match="below a billionth of the breakdown torque"):
+        grade_rotor(MOTOR, 6000.0, 1e-300)
+    with pytest.raises(InputError, match=r"sections entry 1 \(1e\+300 ohm\) must be at most 1e\+06 ohm"):
+        check_rotor(MOTOR, [1e300], 3000.0, 7000.0, 700.0)
+    with pytest.raises(InputError, match=r"r_external \(1e\+300 ohm\) must be at most"):
+        MOTOR.torque_at(0.0, 1e300)
 
 
 def test_speed_beyond_twice_synchronous_is_refused():
