@@ -130,6 +130,13 @@ class MagnetizationCurve:
         return self.emf_at(excitation) / self.speed_rpm
 
 
+#: Highest EMF a magnetization curve may reach: a bound on what a machine's data can be, so that
+#: degenerate tables (scaled by 1e-300 or 1e300) are refused, not interpolated (common practice, no source). [V]
+CURVE_EMF_RANGE_V = (1e-3, 1e6)
+#: The same bound for the highest excitation of the curve. [A]
+CURVE_EXCITATION_RANGE_A = (1e-3, 1e8)
+
+
 def magnetization_curve(
     excitation, emf_v, speed_rpm: float | None = None, excitation_name: str = "current"
 ) -> MagnetizationCurve:
@@ -179,6 +186,18 @@ def magnetization_curve(
         )
     if e[-1] <= 0.0:
         raise InputError("mag_curve EMF is zero throughout: the machine has no flux")
+    if not CURVE_EMF_RANGE_V[0] <= e[-1] <= CURVE_EMF_RANGE_V[1]:
+        low, high = CURVE_EMF_RANGE_V
+        raise InputError(
+            f"mag_curve EMF reaches {quantity(e[-1], 'V')}; a machine's curve reaches between "
+            f"{quantity(low, 'V')} and {quantity(high, 'V')}"
+        )
+    if not CURVE_EXCITATION_RANGE_A[0] <= x[-1] <= CURVE_EXCITATION_RANGE_A[1]:
+        low, high = CURVE_EXCITATION_RANGE_A
+        raise InputError(
+            f"mag_curve {excitation_name} reaches {quantity(x[-1], 'A')}; a machine's curve reaches between "
+            f"{quantity(low, 'A')} and {quantity(high, 'A')}"
+        )
     if x[0] > 0.0:
         x, e = np.concatenate(([0.0], x)), np.concatenate(([0.0], e))
     speed = None if speed_rpm is None else require_positive("speed_rpm", speed_rpm, "rpm")

@@ -16,6 +16,8 @@ from notchwise.addin import udfs
 from notchwise.workbooks.audit import audit_bytes
 from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
 from notchwise.formulas.grading import check_sections, grade_uniform
+from notchwise.formulas.induction_motor import WoundRotorMotor, check_rotor, grade_rotor
+from notchwise.formulas.rotor_start import simulate_rotor_start
 from notchwise.formulas.protection import ride_through
 from notchwise.formulas.relays import CURVES, operate_time_s
 from notchwise.formulas.thermal import thermal_element
@@ -47,6 +49,12 @@ STOP_SHUNT_CELLS = [["kind", "shunt"], ["v_supply", 460.0], ["r_motor", 0.085], 
                     ["inertia", 14.0], ["k_phi", 0.375]]
 STOP_SERIES_CELLS = [["kind", "series"], ["v_supply", 230.0], ["r_motor", 0.062], ["l_circuit", 0.004],
                      ["inertia", 6.5], ["mag_speed", 700.0], ["brush_drop", 2.0]]
+#: The Caldbeck Quarry ball-mill motor (invented): its block as cells, and the machine built from it.
+ROTOR_ROWS = [["kind", "wound rotor"], ["v_line", 690.0], ["frequency", 50.0], ["poles", 6], ["r_stator", 0.02],
+              ["x_stator", 0.12], ["x_magnetizing", 4.0], ["r_rotor", 0.025], ["x_rotor", 0.13], ["e_rotor", 750.0],
+              ["inertia", 60.0]]
+ROTOR = WoundRotorMotor(0.02, 0.12, 4.0, 0.025, 0.13, 690.0, 50.0, 6, 750.0, 60.0)
+ROTOR_SECTIONS = grade_rotor(ROTOR, 6000.0, 3500.0).r_section_ohm
 
 #: name -> (core call, add-in call, target in ms for the core call)
 CASES = {
@@ -64,6 +72,16 @@ CASES = {
         lambda: check_sections(series_motor(), 230.0, [0.19, 0.125, 0.095, 0.07], 290.0, 420.0, 480.0, 2.0),
         lambda: udfs.NW_CHECK_SECTIONS("series", 230.0, 0.062, [[0.19], [0.125], [0.095], [0.07]], 290.0, 420.0,
                                        480.0, CURVE_ROWS, None, None, 2.0, None),
+        1.0,
+    ),
+    "grade rotor (wound rotor)": (
+        lambda: grade_rotor(WoundRotorMotor(0.02, 0.12, 4.0, 0.025, 0.13, 690.0, 50.0, 6, 750.0, 60.0), 6000.0, 3500.0),
+        lambda: udfs.NW_GRADE_ROTOR(ROTOR_ROWS, 6000.0, 3500.0, None, None),
+        1.0,
+    ),
+    "check rotor sections": (
+        lambda: check_rotor(ROTOR, ROTOR_SECTIONS, 3500.0, 6500.0, 700.0),
+        lambda: udfs.NW_CHECK_ROTOR(ROTOR_ROWS, [[float(r)] for r in ROTOR_SECTIONS], 3500.0, 6500.0, 700.0, None),
         1.0,
     ),
     "series speed": (
@@ -147,6 +165,20 @@ def start_section() -> None:
     print(f"worst-case sweep, {np.prod(SWEEP_POINTS)} corners: {sweep_s:.2f} s median (target 2 s)")
 
 
+def rotor_start_section() -> None:
+    """Time the 5-step start of the Caldbeck Quarry ball-mill motor (quasi-steady, Gauss-Legendre)."""
+    table = [[0.0, 800.0], [300.0, 900.0], [700.0, 1500.0], [1000.0, 2200.0]]
+    cases = {
+        "current limit, constant load": dict(load=1000.0, i_cut_a=330.0),
+        "current limit, load table": dict(load=table, i_cut_a=330.0),
+        "definite time, load table": dict(load=table, dwell_s=[0.9, 0.5, 0.3, 0.2, 0.15]),
+    }
+    print()
+    for name, arguments in cases.items():
+        ms = median_ms(lambda: simulate_rotor_start(ROTOR, ROTOR_SECTIONS, **arguments))
+        print(f"5-step rotor start, {name}: {ms:.3f} ms median (target 2 ms)")
+
+
 def median_ms(call, repeat: int = 7) -> float:
     """Median over ``repeat`` runs of the time per call, in ms."""
     runs = timeit.Timer(call).autorange()[0]
@@ -164,6 +196,7 @@ def main() -> None:
         seconds = statistics.median(timeit.repeat(job, number=1, repeat=5))
         print(f"{name:32s} {seconds:9.3f} {target:10.2f}")
     start_section()
+    rotor_start_section()
 
 
 if __name__ == "__main__":

@@ -35,6 +35,11 @@ SHUNT_MOTOR = (("kind", "shunt"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_ci
 SERIES_MOTOR = (("Kind", "Series"), ("v_supply", 220.0), ("r_motor", 0.05), ("l_circuit", 0.004),
                 ("inertia", 3.0), ("mag_speed", 800.0))
 SECTIONS = ((0.5,), (0.25,), (0.12,))
+#: The invented ball-mill motor of Caldbeck Quarry (tests/test_induction_motor.py), as a name/value block.
+ROTOR_MOTOR = (("kind", "Wound Rotor"), ("v_line", 690.0), ("frequency", 50.0), ("poles", 6.0), ("r_stator", 0.02),
+               ("x_stator", 0.12), ("x_magnetizing", 4.0), ("r_rotor", 0.025), ("x_rotor", 0.13), ("e_rotor", 750.0),
+               ("inertia", 60.0))
+ROTOR_SECTIONS = ((0.33,), (0.18,), (0.1,), (0.05,), (0.027,))
 
 #: Valid raw arguments, as Excel passes them, for every spreadsheet function.
 EXAMPLES = {
@@ -61,6 +66,12 @@ EXAMPLES = {
     "NW_START_SIM": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, M, M),
     "NW_SECTION_HEATING": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, "AISI 304", 3.0, 20.0, M, M, M, M),
     "NW_WORST_CASE": (SHUNT_MOTOR, SECTIONS, 300.0, 200.0, -0.1, 0.1, 0.05, "NiCr 80/20", 300.0, 2.0, M, M, M),
+    "NW_GRADE_ROTOR": (ROTOR_MOTOR, 6000.0, 3500.0, M, M),
+    "NW_GRADE_ROTOR_PLATE": (750.0, 400.0, 0.02, 2.0, 1.1, M, True),
+    "NW_CHECK_ROTOR": (ROTOR_MOTOR, ROTOR_SECTIONS, 3500.0, 6500.0, 700.0, M),
+    "NW_ROTOR_TORQUE": (ROTOR_MOTOR, ((0.0,), (500.0,), (1000.0,)), M),
+    "NW_ROTOR_CURRENTS": (ROTOR_MOTOR, ((0.0,), (950.0,)), 0.1, M),
+    "NW_VOLTAGE_DIP": (690.0, 20.0, 8.0, ((632.0,), (0.0,)), 0.45),
     "NW_START_HISTORY": (SERIES_MOTOR, SECTIONS, ((0.0, 200.0), (600.0, 260.0)), ((0.4,), (0.3,), (0.2,)), 50.0, SERIES_CURVE, M),
     "NW_BRAKE_RESISTOR": ("dynamic", 220.0, 0.05, 200.0, 400.0),
     "NW_STOP_SIM": (SHUNT_MOTOR, 0.5, "plugging", 50.0, 1000.0, M, M, M, 1100.0),
@@ -190,6 +201,26 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_START_SIM", 3, 30.0, "notch 1 stalls"),
         ("NW_START_SIM", 3, ((0.5,), (0.4,)), "dwell has 2 entries but sections has 3"),
         ("NW_WORST_CASE", 6, 0.9, "tolerance (0.9) must be at most 0.5"),
+        ("NW_GRADE_ROTOR", 1, 9000.0, "above the breakdown torque (8050 N·m)"),
+        ("NW_GRADE_ROTOR", 0, ROTOR_MOTOR[:-1], "motor needs a row named inertia [kg·m²]; the names are: kind, v_line"),
+        ("NW_GRADE_ROTOR", 0, ROTOR_MOTOR + (("speed", 3.0),), "must be one of: kind, v_line, frequency, poles"),
+        ("NW_GRADE_ROTOR", 0, (("kind", "shunt"),) + ROTOR_MOTOR[1:], "motor kind ('shunt') must be one of: wound rotor"),
+        ("NW_GRADE_ROTOR", 0, ROTOR_MOTOR[:4] + (("r_stator", -0.02),) + ROTOR_MOTOR[5:], "r_stator (-0.02 ohm) must not be negative"),
+        ("NW_GRADE_ROTOR", 0, ROTOR_MOTOR[:3] + (("poles", 5.0),) + ROTOR_MOTOR[4:], "poles (5) must be an even number"),
+        ("NW_GRADE_ROTOR", 0, (("kind",), ("v_line",)), "motor needs two columns, name and value; row 1 has one"),
+        ("NW_GRADE_ROTOR", 1, None, "t_peak is empty; a number in N·m is needed"),
+        ("NW_ROTOR_TORQUE", 1, ((0.0,), (float("nan"),)), "speed entry 2 (nan) must be a finite number in rpm"),
+        ("NW_GRADE_ROTOR", 2, 7000.0, "t_switch (7000 N·m) must be below t_peak (6000 N·m)"),
+        ("NW_GRADE_ROTOR", 3, 2.0, "2 steps cannot keep t_switch (3500 N·m); 5 are needed"),
+        ("NW_GRADE_ROTOR", 0, ROTOR_MOTOR[:7] + (("r_rotor", 2.0),) + ROTOR_MOTOR[8:], "no starting resistance is needed"),
+        ("NW_GRADE_ROTOR_PLATE", 2, 1.5, "s_rated (1.5) must be below 1"),
+        ("NW_GRADE_ROTOR_PLATE", 3, 60.0, "no starting resistance is needed"),
+        ("NW_CHECK_ROTOR", 1, ((0.3,), (-0.1,)), "sections entry 2 (-0.1 ohm) must be above zero"),
+        ("NW_CHECK_ROTOR", 2, 9000.0, "above the breakdown torque"),
+        ("NW_ROTOR_TORQUE", 2, -0.1, "r_external (-0.1 ohm) must not be negative"),
+        ("NW_ROTOR_CURRENTS", 1, ((0.0,), ("x",)), "speed entry 2 ('x') is not a number in rpm"),
+        ("NW_VOLTAGE_DIP", 4, 1.2, "power_factor (1.2) must be at most 1"),
+        ("NW_VOLTAGE_DIP", 3, -5.0, "current (-5 A) must not be negative"),
         ("NW_SECTION_HEATING", 4, "brass", "alloy ('brass') must be one of: AISI 304, NiCr 80/20, CuNi 44"),
         ("NW_BRAKE_RESISTOR", 4, 40000.0, "no braking resistor is needed: r_armature alone (0.05 ohm)"),
         ("NW_BRAKE_RESISTOR", 0, "regenerative", "mode ('regenerative') must be one of: dynamic, plugging"),

@@ -35,12 +35,7 @@ NAMES = sorted(udfs.__all__)
 #: formulas/dc_motor.py, start_sim.py, grading.py, worst_case.py, addin/dynamics.py, starters.py).
 #: (function, argument) -> (where and what, words every problem found holds). Such a case is an expected
 #: failure (xfail) only when each problem holds those words; any other problem still fails the test.
-KNOWN_ELSEWHERE: dict[tuple[str, str], tuple[str, str]] = {
-    ("NW_SERIES_MIN_LOAD", "mag_curve"): (
-        "formulas/dc_motor.py: a curve scaled to 1e-300 V gives the root finder NaN at 0 A (scipy ValueError)",
-        "solver cannot continue",
-    ),
-}
+KNOWN_ELSEWHERE: dict[tuple[str, str], tuple[str, str]] = {}
 
 #: Functions that run a start in time. start_sim.py does not yet bound a start in steps (a magnetization
 #: curve scaled by 1e6 ran over 4 minutes in NW_START_HISTORY; a 5,000-row load table takes 13 s in

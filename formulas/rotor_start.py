@@ -1,0 +1,295 @@
+r"""The start of a wound-rotor induction motor in time, quasi-steady in its circuit.
+
+One state, the shaft speed [1]_:
+
+.. math::
+
+    J\,\frac{d\omega}{dt} = T(s, R_k') - T_L(n), \qquad s = 1 - \frac{\omega}{\omega_s},
+
+with :math:`T(s, R')` the steady-state torque of the T circuit
+(:meth:`WoundRotorMotor.torque_at_slip_nm`), :math:`R_k'` the whole rotor resistance
+on step :math:`k`, :math:`J` the inertia of motor and load and :math:`T_L` the
+load torque (a number or a speed/torque table, :func:`load_torque`).
+
+Why quasi-steady. The electrical time constants of the stator and rotor
+circuits (tens of milliseconds at most, shorter still with resistance in the
+rotor) are small against a resistance start of seconds, so each instant sees
+the steady-state torque at its slip; designers size rotor grids this way
+(common practice, no source). Left out: the stator's switching transient at
+each closing (a DC offset and a brief torque pulsation of a few cycles) and
+the rotor's transient at each cut. Protection that must ride through the first
+cycles needs their asymmetric peak added.
+
+Integration. With the torque an explicit function of slip, the time from slip
+:math:`s_a` to :math:`s_b` is a plain integral,
+
+.. math::
+
+    t = \int_{s_b}^{s_a} \frac{J\,\omega_s}{T(s) - T_L(s)}\,ds, \qquad
+    E_{rotor} = \int_{s_b}^{s_a} \frac{J\,\omega_s^2\, s\, T(s)}{T(s) - T_L(s)}\,ds,
+
+the second being the energy dissipated in the whole rotor circuit
+(:math:`3 I_2'^2 R' = s\,P_{ag} = s\,T\omega_s`, [2]_ sec. 6.4, Eq. 6.26,
+from memory), of which the external resistance takes
+:math:`R_{ext}/(R_{ext} + R_2)`. Near the step's equilibrium slip
+:math:`s_e` (where :math:`T = T_L`) the integrand grows as
+:math:`1/(s - s_e)`; the substitution :math:`s = s_e + (s_a - s_e)e^u` makes
+it smooth, and a 48-point Gauss-Legendre rule in :math:`u` evaluates it
+([3]_, 25.4.29), one panel between each pair of a load table's corners. On no load this gives the law
+:math:`E_{rotor} = \tfrac12 J\omega_s^2 (s_a^2 - s_b^2)` whatever the
+resistance ([1]_, sec. on energy in starting, from memory).
+
+Switching. Current-limit: each step is cut out when the rotor current (rotor
+side) has fallen to ``i_cut_a``; the current is a function of :math:`R'/s`
+alone, so the cut-out slip is :math:`R_k'/x_c` with :math:`x_c` in closed form.
+A step whose current starts at or below it is cut at once. Definite-time:
+each step lasts its dwell, and the slip at its end is found by Brent's method
+on the time integral. After the last cut the motor runs on its own
+resistance; the start counts as finished when the speed reaches
+:data:`SETTLED_FRACTION` of the final speed, or at the last cut if it is
+already there.
+
+Stall. A step whose torque meets the load before its cut-out current is
+reached is refused by name; so is a standstill torque at or below the load at
+rest (the load is a reaction at rest and never drives the motor backwards).
+
+References
+----------
+.. [1] W. Leonhard, *Control of Electrical Drives*, 3rd ed., Springer, 2001,
+   ch. 2 (mechanics of the drive) and sec. on starting losses of induction
+   motors (from memory).
+.. [2] A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, *Electric Machinery*,
+   6th ed., McGraw-Hill, 2003, sec. 6.4 (power and torque, Eqs. 6.25-6.27).
+.. [3] M. Abramowitz and I. A. Stegun, *Handbook of Mathematical Functions*,
+   NBS, 1964, 25.4.29 (Gauss-Legendre quadrature).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.optimize import brentq
+
+from .errors import DesignError, InputError, as_float_array, quantity, require_positive
+from .grading import notch_resistances_ohm
+from .induction_motor import WoundRotorMotor, rotor_sections
+from .start_load import LoadTorque, load_torque
+from .start_notch import SETTLED_FRACTION
+
+__all__ = ["RotorStart", "simulate_rotor_start", "QUADRATURE_POINTS"]
+
+#: Gauss-Legendre points per step. [-]
+QUADRATURE_POINTS = 48
+_NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_POINTS)
+#: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start.
+_SCAN = np.linspace(1.0, 0.0, 513)
+
+
+@dataclass(frozen=True)
+class RotorStart:
+    """A simulated rotor-resistance start, one entry per step (step 1 = all sections in).
+
+    Attributes
+    ----------
+    r_total_ohm, r_section_ohm : numpy.ndarray
+        Whole rotor resistance on each step and the section cut out at its end, rotor side, per phase. [ohm]
+    t_start_s, dwell_s : numpy.ndarray
+        Instant each step begins, and how long it lasts. [s]
+    i_peak_a, i_cut_a : numpy.ndarray
+        Rotor current (rotor side) at the start of each step, its highest, and at its cut-out. [A]
+    i_stator_peak_a : numpy.ndarray
+        Highest stator current on each step. [A]
+    n_cut_rpm, s_cut : numpy.ndarray
+        Speed and slip at each cut-out. [rpm], [-]
+    energy_rotor_j : numpy.ndarray
+        Energy dissipated in the whole rotor circuit (own and external resistance, three phases) on each step. [J]
+    energy_step_j : numpy.ndarray
+        Energy dissipated in the external rotor resistance, three phases, on each step. [J]
+    i_peak_run_a, i_stator_peak_run_a : float
+        Rotor and stator current just after the last cut (the run's highest). [A]
+    t_accel_s : float
+        Acceleration time (module docstring). [s]
+    n_final_rpm : float
+        Steady speed on the rotor's own resistance at the load. [rpm]
+    """
+
+    r_total_ohm: np.ndarray
+    r_section_ohm: np.ndarray
+    t_start_s: np.ndarray
+    dwell_s: np.ndarray
+    i_peak_a: np.ndarray
+    i_cut_a: np.ndarray
+    i_stator_peak_a: np.ndarray
+    n_cut_rpm: np.ndarray
+    s_cut: np.ndarray
+    energy_rotor_j: np.ndarray
+    energy_step_j: np.ndarray
+    i_peak_run_a: float
+    i_stator_peak_run_a: float
+    t_accel_s: float
+    n_final_rpm: float
+
+    @property
+    def notches(self) -> int:
+        """Number of steps, equal to the number of sections. [-]"""
+        return int(self.r_section_ohm.size)
+
+    @property
+    def energy_total_j(self) -> float:
+        """Energy dissipated in the external rotor resistance over the whole start, three phases. [J]"""
+        return float(np.sum(self.energy_step_j))
+
+
+class _Step:
+    """One step's resistance against the load: its equilibrium slip and its time and energy integrals."""
+
+    def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float):
+        self.motor, self.load, self.r, self.s_a = motor, load, r_referred, s_start
+        self.constant_load = load.constant
+        self.s_eq = self._equilibrium_slip()
+
+    def net_nm(self, s):
+        """Accelerating torque at slip ``s``. [N·m]"""
+        return self.motor.torque_at_slip_nm(s, self.r) - self.load.at(self.motor.speed_at_slip_rpm(s))
+
+    def _equilibrium_slip(self) -> float:
+        """The first slip below the step's start at which the motor torque meets the load. [-]"""
+        if self.constant_load:
+            t_load = float(self.load.torque_nm[0])
+            if t_load == 0.0:
+                return 0.0
+            return self.r / self.motor.r_over_s_at_torque(t_load)  # T(R'/s) = T_L on the stable side
+        s = self.s_a * _SCAN
+        meets = np.nonzero(self.net_nm(s[1:]) <= 0.0)[0][0] + 1
+        return brentq(self.net_nm, s[meets], s[meets - 1], xtol=1e-14, rtol=1e-14) if self.net_nm(s[meets]) < 0.0 else float(s[meets])
+
+    def integrals(self, s_end: float) -> tuple[float, float]:
+        """Time [s] and whole-rotor energy [J] from the step's start to slip ``s_end`` (module docstring)."""
+        width = self.s_a - self.s_eq
+        # One Gauss-Legendre panel between each pair of the load table's corners, where the integrand has a kink.
+        ends = [s_end, self.s_a]
+        if not self.constant_load:
+            corners = self.motor.slip(self.load.speed_rpm)
+            ends = np.sort(np.concatenate((ends, corners[(corners > s_end) & (corners < self.s_a)])))
+        bounds = np.log((np.asarray(ends) - self.s_eq) / width)
+        half = 0.5 * (bounds[1:] - bounds[:-1])[:, None]
+        u = (bounds[:-1, None] + half * (1.0 + _NODES)).ravel()
+        weights = (half * _WEIGHTS).ravel()
+        s = self.s_eq + width * np.exp(u)
+        torque = self.motor.torque_at_slip_nm(s, self.r)
+        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
+        return float(weights @ dt_du), self.motor.omega_sync_rad_s * float(weights @ (dt_du * s * torque))
+
+    def slip_after(self, dwell: float) -> float:
+        """Slip reached after ``dwell`` seconds on this step (Brent's method on the time integral). [-]"""
+        if dwell == 0.0:
+            return self.s_a
+        near = self.s_eq + (self.s_a - self.s_eq) * 1e-12
+        if self.integrals(near)[0] <= dwell:
+            return near  # settled on this step within the quadrature's reach
+        return brentq(lambda s: self.integrals(s)[0] - dwell, near, self.s_a, xtol=1e-14, rtol=1e-13)
+
+
+def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=None, dwell_s=None) -> RotorStart:
+    """Simulate a rotor-resistance start step by step, quasi-steady in the circuit.
+
+    Parameters
+    ----------
+    motor : WoundRotorMotor
+        The machine, with the inertia of motor and load. [-]
+    sections_ohm : array_like
+        Rotor sections, rotor side, per phase, in the order they are cut out. [ohm]
+    load : float or array_like
+        Load torque on the motor shaft: a number [N·m] or rows of speed [rpm] and torque [N·m].
+    i_cut_a : float, optional
+        Rotor current (rotor side) at which each step is cut out (current-limit). [A]
+    dwell_s : array_like, optional
+        Dwell of each step, one per section (definite-time). [s]
+
+    Returns
+    -------
+    RotorStart
+
+    Notes
+    -----
+    .. math:: t_k = \\int_{s_{k}}^{s_{k-1}} \\frac{J\\omega_s\\,ds}{T(s, R_k') - T_L(s)}
+
+    (module docstring). Exactly one of ``i_cut_a`` and ``dwell_s`` is given.
+
+    Raises
+    ------
+    InputError
+        Both or neither switching given; dwells not one per section or negative.
+    DesignError
+        Standstill torque at or below the load, a step that stalls, or a cut
+        after which the motor would slow down.
+    """
+    sections = rotor_sections(sections_ohm)
+    torque_load = load_torque(load)
+    if (i_cut_a is None) == (dwell_s is None):
+        raise InputError("give either i_cut (current-limit switching) or dwell (definite-time switching), not both or neither")
+    if i_cut_a is not None:
+        x_cut = motor.r_over_s_at_rotor_current(require_positive("i_cut", i_cut_a, "A"))
+    else:
+        dwells = as_float_array("dwell", dwell_s, "s")
+        if dwells.size != sections.size:
+            raise InputError(f"dwell has {dwells.size} entries but sections has {sections.size}")
+        if np.any(dwells < 0.0):
+            k = int(np.argmax(dwells < 0.0))
+            raise InputError(f"dwell entry {k + 1} ({quantity(dwells[k], 's')}) must not be negative")
+    r = notch_resistances_ohm(motor.r_rotor_side_ohm, sections)
+    r_ref = motor.to_stator_side_ohm(r)
+    count = sections.size
+    t_start, dwell, s_cut, e_rotor = (np.empty(count) for _ in range(4))
+    s_a, t = 1.0, 0.0
+    steps = []
+    for k in range(count + 1):
+        step = _Step(motor, torque_load, float(r_ref[k]), s_a)
+        net = float(step.net_nm(s_a))
+        if net <= 0.0:
+            where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(float(motor.speed_at_slip_rpm(s_a)), 'rpm')}: the torque"
+            raise DesignError(
+                f"step {k + 1} stalls {where} ({quantity(net + float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')}) "
+                f"is not above the load ({quantity(float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')})"
+            )
+        steps.append(step)
+        if k == count:
+            break
+        if i_cut_a is not None:
+            s_b = min(s_a, step.r / x_cut)
+            if s_b <= step.s_eq:
+                raise DesignError(
+                    f"step {k + 1} stalls: the torque meets the load at {quantity(float(motor.speed_at_slip_rpm(step.s_eq)), 'rpm')} "
+                    f"before the rotor current falls to i_cut ({quantity(i_cut_a, 'A')}): raise i_cut or lighten the load"
+                )
+        else:
+            s_b = step.slip_after(float(dwells[k]))
+        dwell[k], e_rotor[k] = step.integrals(s_b) if s_b < s_a else (0.0, 0.0)
+        t_start[k], s_cut[k] = t, s_b
+        t, s_a = t + dwell[k], s_b
+    run = steps[-1]
+    s_settled = 1.0 - SETTLED_FRACTION * (1.0 - run.s_eq)
+    t_accel = t + (run.integrals(s_settled)[0] if s_settled < run.s_a else 0.0)
+    s_starts = np.array([st.s_a for st in steps])
+    at_start = motor.currents(s_starts, r_ref)
+    at_end = motor.currents(np.append(s_cut, run.s_eq), r_ref)
+    stator_peak = np.maximum(at_start.stator_a, at_end.stator_a)  # falls then rises once along a step (induction_motor.check_rotor)
+    return RotorStart(
+        r_total_ohm=r[:-1],
+        r_section_ohm=sections,
+        t_start_s=t_start,
+        dwell_s=dwell,
+        i_peak_a=at_start.rotor_a[:-1],
+        i_cut_a=at_end.rotor_a[:-1],
+        i_stator_peak_a=stator_peak[:-1],
+        n_cut_rpm=motor.speed_at_slip_rpm(s_cut),
+        s_cut=s_cut,
+        energy_rotor_j=e_rotor,
+        energy_step_j=e_rotor * (1.0 - motor.r_rotor_side_ohm / r[:-1]),
+        i_peak_run_a=float(at_start.rotor_a[-1]),
+        i_stator_peak_run_a=float(stator_peak[-1]),
+        t_accel_s=float(t_accel),
+        n_final_rpm=float(motor.speed_at_slip_rpm(run.s_eq)),
+    )
