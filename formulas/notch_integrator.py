@@ -56,7 +56,7 @@ from __future__ import annotations
 
 import math
 from bisect import bisect_right
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 
 import numpy as np
 from scipy.interpolate import PchipInterpolator
@@ -117,6 +117,10 @@ class FluxCurve:
     coefficients: tuple
     offset_a: float = 0.0
     gain: float = 1.0
+    _evaluate: object = field(init=False, repr=False, compare=False)
+
+    def __post_init__(self):
+        object.__setattr__(self, "_evaluate", _flux_evaluator(self.breaks, self.coefficients, self.offset_a, self.gain))
 
     @property
     def i_max_a(self) -> float:
@@ -127,7 +131,7 @@ class FluxCurve:
 
     def k_phi(self, i_a: float) -> float:
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
-        return _flux_and_slope(self, i_a)[0]
+        return self._evaluate(float(i_a))[0]
 
 
 def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain: float = 1.0) -> FluxCurve:
@@ -166,9 +170,13 @@ def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain:
     speed = require_positive("speed", speed_rpm, "rpm")
     offset = require_non_negative("offset", offset_a, "A")
     turns = require_positive("gain", gain)
-    pchip = PchipInterpolator(x, e)
-    rows = tuple(tuple(float(c) / speed for c in column) for column in pchip.c.T)
-    return FluxCurve(tuple(float(v) for v in pchip.x), rows, offset, turns)
+    return _pieces(PchipInterpolator(x, e), speed, offset, turns)
+
+
+def _pieces(pchip, speed_rpm, offset_a, gain):
+    """The :class:`FluxCurve` of a piecewise polynomial in scipy's form (``.x`` breaks, ``.c`` coefficients)."""
+    rows = tuple(tuple(c / speed_rpm for c in column) for column in pchip.c.T.tolist())
+    return FluxCurve(tuple(pchip.x.tolist()), rows, float(offset_a), float(gain))
 
 
 def constant_flux(k_phi_v_per_rpm: float) -> FluxCurve:
@@ -191,26 +199,32 @@ def motor_flux(motor) -> FluxCurve:
     curve = getattr(motor, "curve", None)
     if curve is None or curve.speed_rpm is None:
         raise InputError("mag_curve and mag_speed are needed to simulate a series or compound motor")
-    return flux_curve(curve.excitation, curve.emf_v, curve.speed_rpm, getattr(motor, "shunt_at", 0.0),
-                      getattr(motor, "series_turns", 1.0))
+    # The curve validated its table when it was built; its interpolant is rebuilt here from the same points.
+    return _pieces(PchipInterpolator(curve.excitation, curve.emf_v), curve.speed_rpm,
+                   getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
 
 
-def _flux_and_slope(flux: FluxCurve, i_a: float):
-    """:math:`k\\Phi(i)` [V/rpm] and :math:`dk\\Phi/di` [V/(rpm·A)] by bisection and Horner's rule."""
-    x = flux.offset_a + flux.gain * i_a
-    if x <= 0.0:
-        x, held = 0.0, True
-    else:
-        held = False
-    breaks = flux.breaks
-    k = bisect_right(breaks, x) - 1
-    last = len(flux.coefficients) - 1
-    k = 0 if k < 0 else (last if k > last else k)
-    c3, c2, c1, c0 = flux.coefficients[k]
-    u = x - breaks[k]
-    value = ((c3 * u + c2) * u + c1) * u + c0
-    slope = 0.0 if held else flux.gain * ((3.0 * c3 * u + 2.0 * c2) * u + c1)
-    return value, slope
+def _flux_evaluator(breaks, coefficients, offset_a, gain):
+    """A function of the armature current giving :math:`k\\Phi` [V/rpm] and its slope [V/(rpm·A)].
+
+    Bisection for the interval, Horner's rule for the cubic; the locals are bound once (the step loop
+    calls it three times a step).
+    """
+    last = len(coefficients) - 1
+
+    def flux_and_slope(i_a):
+        x = offset_a + gain * i_a
+        if x <= 0.0:  # no excitation below zero: the flux is held there
+            c3, c2, c1, c0 = coefficients[0]
+            return c0, 0.0
+        k = bisect_right(breaks, x) - 1
+        if k > last:
+            k = last
+        c3, c2, c1, c0 = coefficients[k]
+        u = x - breaks[k]
+        return ((c3 * u + c2) * u + c1) * u + c0, gain * ((3.0 * c3 * u + 2.0 * c2) * u + c1)
+
+    return flux_and_slope
 
 
 @dataclass(frozen=True)
@@ -340,11 +354,6 @@ class NotchRun:
         return current, speed
 
 
-def _cubic(y0, y1, d0, d1):
-    """Power-basis coefficients in s in [0, 1] of the Hermite cubic with values y and slopes d (times h)."""
-    return y0, d0, 3.0 * (y1 - y0) - 2.0 * d0 - d1, 2.0 * (y0 - y1) + d0 + d1
-
-
 def _at(a, s):
     return ((a[3] * s + a[2]) * s + a[1]) * s + a[0]
 
@@ -403,7 +412,7 @@ def integrate_notch(
     i_cut_a: float | None = None,
     n_settle_rpm: float | None = None,
     t_max_s: float = math.inf,
-    rtol: float = 1e-5,
+    rtol: float = 5e-5,
     max_steps: int = 20_000,
     keep_history: bool = True,
 ) -> NotchRun:
@@ -479,13 +488,14 @@ def integrate_notch(
     t_const = torques[0]
     i_max = flux.i_max_a
     inv_l, c_j = 1.0 / l_h, _C1 / j
-    kphi_top = _flux_and_slope(flux, min(v / r, i_max))[0]
+    flux_and_slope = flux._evaluate
+    kphi_top = flux_and_slope(min(v / r, i_max))[0]
     i_floor = 1e-3 * v / r  # absolute parts of the error scale: a thousandth of the standstill current
     n_floor = 1e-3 * v / kphi_top if kphi_top > 0.0 else 1.0  # and of a speed below any running speed
 
-    def field(i, n):
+    def derivatives(i, n):
         """Slopes di/dt [A/s], dn/dt [rpm/s] and the Jacobian entries at (i, n)."""
-        phi, dphi = _flux_and_slope(flux, i)
+        phi, dphi = flux_and_slope(i)
         if constant_load:
             tl, dtl = t_const, 0.0
         else:
@@ -494,11 +504,11 @@ def integrate_notch(
                 -(r + dphi * n) * inv_l, -phi * inv_l, c_j * _C1 * (phi + dphi * i), -c_j * dtl)
 
     def slopes(i, n):
-        phi = _flux_and_slope(flux, i)[0]
+        phi = flux_and_slope(i)[0]
         tl = t_const if constant_load else _load_and_slope(speeds, torques, n)[0]
         return (v - r * i - phi * n) * inv_l, c_j * (_C1 * phi * i - tl)
 
-    fi, fn, j11, j12, j21, j22 = field(i, n)
+    fi, fn, j11, j12, j21, j22 = derivatives(i, n)
     tau = l_h / r
     h = min(t_max, 0.5 * tau * rtol ** (1.0 / 3.0))
     t = 0.0
@@ -509,6 +519,7 @@ def integrate_notch(
     steps = rejected = 0
     status, message = "", ""
     gamma = 0.5
+    work_per_rpm_s = t_const * _RAD_S_PER_RPM
     while True:
         if steps >= max_steps:
             status = "step cap"
@@ -542,8 +553,8 @@ def integrate_notch(
         k4i = b11 * ri + b12 * rn
         k4n = b21 * ri + b22 * rn
         i1, n1 = ui + k4i, un + k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
-        ei = k4i / (rtol * (max(abs(i), abs(i1)) + i_floor))
-        en = k4n / (rtol * (max(abs(n), abs(n1)) + n_floor))
+        ei = k4i / (rtol * ((i if i > i1 else i1) + i_floor))  # i, n at or above zero on a running phase
+        en = k4n / (rtol * ((n if n > n1 else n1) + n_floor))
         err = math.sqrt(0.5 * (ei * ei + en * en))
         if err > 1.0 or err != err:
             rejected += 1
@@ -553,9 +564,10 @@ def integrate_notch(
                 break
             continue
         steps += 1
-        f1 = field(i1, n1)
-        pi = _cubic(i, i1, h * fi, h * f1[0])
-        pn = _cubic(n, n1, h * fn, h * f1[1])
+        f1 = derivatives(i1, n1)
+        di0, di1, dn0, dn1 = h * fi, h * f1[0], h * fn, h * f1[1]
+        pi = (i, di0, 3.0 * (i1 - i) - 2.0 * di0 - di1, 2.0 * (i - i1) + di0 + di1)  # Hermite cubics in s = (t - t0)/h
+        pn = (n, dn0, 3.0 * (n1 - n) - 2.0 * dn0 - dn1, 2.0 * (n - n1) + dn0 + dn1)
         # Events on the Hermite cubic of this step: the first one ends the phase.
         s_end, status = 1.0, "time" if last else ""
         if i_cut is not None:
@@ -566,15 +578,15 @@ def integrate_notch(
                 if i1 <= i_cut:
                     s_up = _slope_zero(pi) or 0.5
                     s_end, status = _root(lambda s: _at(pi, s) - i_cut, s_up, 1.0, _at(pi, s_up) - i_cut, i1 - i_cut), "cut"
-        if n1 <= 0.0 < n or (n1 <= 0.0 and fn < 0.0 and n == 0.0):
+        if n1 <= 0.0 and (n > 0.0 or fn < 0.0):
             s_rest = _root(lambda s: _at(pn, s), 0.0, 1.0, n, n1) if n > 0.0 else 0.0
             if s_rest <= s_end:
                 s_end, status = s_rest, "rest"
-        if n_settle is not None:
+        if n_settle is not None and n1 >= n_settle:
             s_ok = _settle_point(pi, pn, n_settle)
             if s_ok is not None and s_ok <= s_end:
                 s_end, status = s_ok, "settled"
-        s_peak = _slope_zero(pi)
+        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] else None
         if s_peak is not None and s_peak <= s_end:
             value = _at(pi, s_peak)
             if value > peak:
@@ -582,7 +594,7 @@ def integrate_notch(
         charge += h * _integral(pi, s_end)
         i2t += h * _square_integral(pi, s_end)
         if constant_load:
-            work += t_const * _RAD_S_PER_RPM * h * _integral(pn, s_end)
+            work += work_per_rpm_s * h * _integral(pn, s_end)
         else:
             work += _RAD_S_PER_RPM * h * s_end * sum(
                 w * _load_and_slope(speeds, torques, _at(pn, s_end * x))[0] * _at(pn, s_end * x) for x, w in _GAUSS)
@@ -636,9 +648,5 @@ def _integral(a, s):
 def _square_integral(a, s):
     """:math:`\\int_0^s p^2` of the cubic ``a``, exactly. [-]"""
     a0, a1, a2, a3 = a
-    b = (a0 * a0, 2.0 * a0 * a1, a1 * a1 + 2.0 * a0 * a2, 2.0 * (a0 * a3 + a1 * a2), a2 * a2 + 2.0 * a1 * a3,
-         2.0 * a2 * a3, a3 * a3)
-    total = 0.0
-    for k in range(6, -1, -1):
-        total = total * s + b[k] / (k + 1)
-    return total * s
+    return s * (a0 * a0 + s * (a0 * a1 + s * ((a1 * a1 + 2.0 * a0 * a2) / 3.0 + s * (0.5 * (a0 * a3 + a1 * a2) + s * (
+        (a2 * a2 + 2.0 * a1 * a3) / 5.0 + s * (a2 * a3 / 3.0 + s * a3 * a3 / 7.0))))))

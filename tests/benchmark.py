@@ -14,8 +14,17 @@ import numpy as np
 
 from notchwise.addin import udfs
 from notchwise.workbooks.audit import audit_bytes
-from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, developed_torque_nm, magnetization_curve, steady_speed_rpm
-from notchwise.formulas.grading import check_sections, grade_uniform
+import math
+
+from scipy.integrate import solve_ivp
+
+from notchwise.formulas import start_sim
+from notchwise.formulas.dc_motor import (NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, developed_torque_nm,
+                                         effective_supply_v, magnetization_curve, steady_speed_rpm)
+from notchwise.formulas.errors import DesignError
+from notchwise.formulas.notch_integrator import integrate_notch, load_table, motor_flux
+from notchwise.formulas.resistors import resistance_at_c
+from notchwise.formulas.grading import check_sections, grade_uniform, notch_resistances_ohm
 from notchwise.formulas.protection import ride_through
 from notchwise.formulas.relays import CURVES, operate_time_s
 from notchwise.formulas.thermal import thermal_element
@@ -131,6 +140,120 @@ def start_section() -> None:
     print(f"worst-case sweep, {np.prod(SWEEP_POINTS)} corners: {sweep_s:.2f} s median (target 2 s)")
 
 
+def compound_motor() -> CompoundMotor:
+    """An invented compound motor: the hoist's curve read against ampere-turns per pole (x10), 1,200 shunt AT, 8 series turns."""
+    return CompoundMotor(0.062, magnetization_curve(CURVE_TABLE[:, 0] * 10.0, CURVE_TABLE[:, 1], 700.0, "ampere-turns"),
+                         1200.0, 8.0)
+
+
+def fast_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2, load, i_cut_a, brush_drop_v=0.0, rtol=5e-5):
+    """A current-limit start driven notch by notch with integrate_notch: the orchestration of simulate_start.
+
+    The held (standstill) phases and the stall checks are start_sim's own; only the integrated running
+    phase is replaced. This is the shape the integrated path takes once integrate_notch is plugged in.
+    """
+    v_eff = effective_supply_v(v_supply_v, brush_drop_v)
+    r_notch = notch_resistances_ohm(motor.r_ohm, np.asarray(sections_ohm, dtype=float))
+    torque = start_sim.load_torque(load)
+    flux, table = motor_flux(motor), load_table(torque.speed_rpm, torque.torque_nm)
+    # start_sim's helpers ask only k_phi and i_max_a of the motor: the flux curve answers them without scipy objects.
+    i_final = start_sim.settling_current_a(flux, v_eff, motor.r_ohm, torque)
+    n_final = (v_eff - motor.r_ohm * i_final) / flux.k_phi(i_final)
+    start_sim._check_stalls(flux, v_eff, r_notch, torque, i_cut_a)
+    k_mech = flux.k_phi(i_cut_a)
+    t_cap = start_sim.TIME_CAP_FACTOR * (r_notch[0] * inertia_kgm2 / (NM_PER_V_A_PER_RPM * k_mech) ** 2
+                                         + l_circuit_h / motor.r_ohm)
+    notches, t, i, n = [], 0.0, 0.0, 0.0
+    for k, r in enumerate(r_notch):
+        last = k == r_notch.size - 1
+        notch = start_sim._Notch(k + 1, t, i, n)
+        for _ in range(start_sim.MAX_PHASES_PER_NOTCH):
+            # The breakaway current only matters at rest (notch 1, or after a return to rest).
+            if notch.n <= 0.0 and notch.i < (i_break := start_sim._breakaway_current_a(flux, torque, v_eff / r)):
+                if start_sim._held_phase(notch, v_eff, r, l_circuit_h, i_break, None if last else i_cut_a, math.inf):
+                    break
+                continue
+            run = integrate_notch(flux, v_eff, r, l_circuit_h, inertia_kgm2, table, notch.i, notch.n,
+                                  i_cut_a=None if last else i_cut_a, t_max_s=t_cap, rtol=rtol,
+                                  n_settle_rpm=start_sim.SETTLED_FRACTION * n_final if last else None)
+            notch.add(run.duration_s, run.i_end_a, run.n_end_rpm, run.i_peak_a, run.charge_c, run.i2t_a2s,
+                      run.work_load_j, run.state_at)
+            if run.status in ("cut", "settled"):
+                break
+            if run.status != "rest":
+                raise DesignError(f"notch {k + 1}: {run.message or 'the notch did not end within the time cap'}")
+        notches.append(notch)
+        t, i, n = notch.t, notch.i, notch.n
+    cut = notches[:-1]
+    return dict(i_peak_a=np.array([x.peak for x in cut]), dwell_s=np.array([x.t - x.segments[0].t0_s for x in cut]),
+                i2t_a2s=np.array([x.i2t for x in cut]), work_load_j=np.array([x.work for x in cut]),
+                i_peak_run_a=notches[-1].peak, t_accel_s=notches[-1].t)
+
+
+def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2, load, i_cut_a, brush_drop_v=0.0):
+    """The same start as a plain tight solve (solve_ivp LSODA, rtol 1e-9), written with no care for speed.
+
+    The shaft is held at rest while the load out-pulls the motor; each notch ends on the cut-out event.
+    """
+    v_eff = v_supply_v - brush_drop_v
+    c1 = NM_PER_V_A_PER_RPM
+    torque = start_sim.load_torque(load)
+    y, t0, out = [0.0, 0.0, 0.0], 0.0, []
+    for r in notch_resistances_ohm(motor.r_ohm, np.asarray(sections_ohm, dtype=float))[:-1]:
+        def rhs(t, state):
+            i, n = state[0], state[1]
+            flux = float(motor.k_phi(max(i, 0.0)))
+            dn = c1 * (c1 * flux * i - float(torque.at(n))) / inertia_kgm2
+            return [(v_eff - r * i - flux * n) / l_circuit_h, 0.0 if n <= 0.0 and dn < 0.0 else dn, i * i]
+
+        def falls(t, state):
+            return state[0] - i_cut_a
+
+        falls.terminal, falls.direction = True, -1.0
+        solution = solve_ivp(rhs, (0.0, 60.0), y, method="LSODA", rtol=1e-9, atol=1e-9, events=falls)
+        y = [float(solution.y[0, -1]), float(solution.y[1, -1]), 0.0]
+        out.append((solution.t[-1], float(np.max(solution.y[0])), float(solution.y[2, -1])))
+        t0 += solution.t[-1]
+    return out
+
+
+def fast_start_section() -> None:
+    """Series and compound 4-notch starts through integrate_notch, beside simulate_start and a plain LSODA solve."""
+    for name, motor in (("series", series_motor()), ("compound", compound_motor())):
+        case = dict(motor=motor, v_supply_v=230.0, sections_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
+                    l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0)
+        fast = fast_start(**case)
+        tight = simulate_start(**case, rtol=1e-10)
+        errors = {key: np.max(np.abs(np.atleast_1d(fast[key]) / np.atleast_1d(getattr(tight, key)) - 1.0))
+                  for key in ("i_peak_a", "dwell_s", "i2t_a2s", "work_load_j", "i_peak_run_a", "t_accel_s")}
+        fast_ms = median_ms(lambda: fast_start(**case))
+        lsoda_ms = median_ms(lambda: plain_lsoda_start(**case), repeat=3)
+        today_ms = median_ms(lambda: simulate_start(**case), repeat=3)
+        print(f"4-notch {name} start through integrate_notch (RODAS3, rtol 5e-5): {fast_ms:.2f} ms median (target 5 ms);"
+              f" ratio to a plain LSODA rtol 1e-9 solve ({lsoda_ms:.0f} ms) {fast_ms / lsoda_ms:.3f} (target 0.03);"
+              f" simulate_start today (Radau rtol 1e-7) {today_ms:.0f} ms, ratio {fast_ms / today_ms:.3f}")
+        print("  largest difference from simulate_start at rtol 1e-10: "
+              + ", ".join(f"{key} {100 * value:.1e} %" for key, value in errors.items()) + " (target 0.05 %)")
+    motor = series_motor()
+    sections = grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm
+    corners = [(v, tol, hot) for v in np.linspace(207.0, 253.0, 10) for tol in np.linspace(-0.05, 0.05, 10)
+               for hot in np.linspace(20.0, 300.0, 10)]
+    started = timeit.default_timer()
+    peaks, stalls = [], 0
+    for v, tol, hot in corners:
+        try:
+            run = fast_start(motor, v, sections * (1.0 + tol) * resistance_at_c(1.0, hot, "AISI 304"), 0.004, 6.5, 520.0,
+                             301.0, 2.0)
+        except DesignError:
+            stalls += 1
+            continue
+        peaks.append(max(np.max(run["i_peak_a"]), run["i_peak_run_a"]))
+    sweep_s = timeit.default_timer() - started
+    print(f"series hoist worst case over {len(corners)} corners through integrate_notch: {sweep_s:.2f} s (target 5 s),"
+          f" {stalls} stalled, highest peak {max(peaks):.1f} A; through simulate_start today, estimated"
+          f" {len(corners) * today_ms / 1e3:.0f} s (1,000 x its median)")
+
+
 def median_ms(call, repeat: int = 7) -> float:
     """Median over ``repeat`` runs of the time per call, in ms."""
     runs = timeit.Timer(call).autorange()[0]
@@ -148,6 +271,7 @@ def main() -> None:
         seconds = statistics.median(timeit.repeat(job, number=1, repeat=5))
         print(f"{name:32s} {seconds:9.3f} {target:10.2f}")
     start_section()
+    fast_start_section()
 
 
 if __name__ == "__main__":
