@@ -515,6 +515,10 @@ def integrate_notch(
     peak, t_peak = i, 0.0
     charge = i2t = work = 0.0
     rose = i_cut is not None and i > i_cut
+    # The current's error is weighed against its swing on the phase, not its size: the instant it falls back
+    # to the cut-out value moves by the error over the slope, and the slope scales with the swing.
+    i_start = i
+    swing = 0.01 * i
     knots = [(0.0, i, n, fi, fn)] if keep_history else None
     steps = rejected = 0
     status, message = "", ""
@@ -553,7 +557,7 @@ def integrate_notch(
         k4i = b11 * ri + b12 * rn
         k4n = b21 * ri + b22 * rn
         i1, n1 = ui + k4i, un + k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
-        ei = k4i / (rtol * ((i if i > i1 else i1) + i_floor))  # i, n at or above zero on a running phase
+        ei = k4i / (rtol * (swing + i_floor))
         en = k4n / (rtol * ((n if n > n1 else n1) + n_floor))
         err = math.sqrt(0.5 * (ei * ei + en * en))
         if err > 1.0 or err != err:
@@ -610,6 +614,8 @@ def integrate_notch(
             h_end = h
         t += h_end
         i, n = i1, n1
+        if abs(i - i_start) > swing:
+            swing = abs(i - i_start)
         fi, fn, j11, j12, j21, j22 = f1
         if i > peak:
             peak, t_peak = i, t
