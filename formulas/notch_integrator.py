@@ -180,18 +180,43 @@ def _pieces(pchip, speed_rpm, offset_a, gain):
 
 
 def constant_flux(k_phi_v_per_rpm: float) -> FluxCurve:
-    """A :class:`FluxCurve` of constant value (a shunt or separately excited motor). [V/rpm]"""
+    r"""A :class:`FluxCurve` of constant value: a shunt or separately excited motor.
+
+    Parameters
+    ----------
+    k_phi_v_per_rpm : float
+        Back-EMF per rpm at the working field, above zero. [V/rpm]
+
+    Returns
+    -------
+    FluxCurve
+
+    Notes
+    -----
+    .. math:: k\Phi(i) = k\Phi_0
+    """
     k_phi = require_positive("k_phi", k_phi_v_per_rpm, "V/rpm")
     return FluxCurve((0.0, math.inf), ((0.0, 0.0, 0.0, k_phi),), 0.0, 0.0)
 
 
 def motor_flux(motor) -> FluxCurve:
-    """The :class:`FluxCurve` of a motor of :mod:`notchwise.formulas.dc_motor`.
+    r"""The :class:`FluxCurve` of a motor of :mod:`notchwise.formulas.dc_motor`.
 
-    A motor with a ``k_phi_v_per_rpm`` has constant flux; otherwise its
-    magnetization ``curve`` (with its speed) is used, at excitation
-    ``shunt_at + series_turns * i`` where the motor has those (compound) and
-    ``i`` otherwise (series).
+    Parameters
+    ----------
+    motor : ShuntMotor, SeriesMotor or CompoundMotor
+        A motor with a ``k_phi_v_per_rpm`` has constant flux; otherwise its
+        magnetization ``curve`` (with its speed) is used, at excitation
+        ``shunt_at + series_turns * i`` where the motor has those (compound)
+        and ``i`` otherwise (series). [-]
+
+    Returns
+    -------
+    FluxCurve
+
+    Notes
+    -----
+    .. math:: k\Phi(i) = E_{mag}(F_{sh} + N_{se} i)/n_{mag}
     """
     k_phi = getattr(motor, "k_phi_v_per_rpm", None)
     if k_phi is not None:
@@ -249,7 +274,7 @@ class LoadTable:
 
 
 def load_table(speed_rpm, torque_nm) -> LoadTable:
-    """A validated :class:`LoadTable`; one point for a constant load.
+    r"""A validated :class:`LoadTable`; one point for a constant load.
 
     Parameters
     ----------
@@ -261,6 +286,10 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
     Returns
     -------
     LoadTable
+
+    Notes
+    -----
+    .. math:: T_L(n) = T_k + (T_{k+1} - T_k)\frac{n - n_k}{n_{k+1} - n_k}, \quad n_k \le n \le n_{k+1}
     """
     n = as_float_array("load speed", speed_rpm, "rpm")
     t = as_float_array("load torque", torque_nm, "N·m")
@@ -409,9 +438,9 @@ def integrate_notch(
     i0_a: float,
     n0_rpm: float,
     *,
+    t_max_s: float,
     i_cut_a: float | None = None,
     n_settle_rpm: float | None = None,
-    t_max_s: float = math.inf,
     rtol: float = 5e-5,
     max_steps: int = 20_000,
     keep_history: bool = True,
@@ -441,8 +470,8 @@ def integrate_notch(
     n_settle_rpm : float, optional
         Stop at the first instant the speed is at or above this with the
         current falling (the run after the last cut). [rpm]
-    t_max_s : float, optional
-        Longest duration (a definite-time dwell or a time cap). [s]
+    t_max_s : float
+        Longest duration, finite (a definite-time dwell or a time cap). [s]
     rtol : float, optional
         Relative tolerance of the local error, 1e-12 to 1e-2. [-]
     max_steps : int, optional
@@ -472,7 +501,7 @@ def integrate_notch(
     j = require_positive("inertia", inertia_kgm2, "kg·m²")
     i = require_non_negative("i0", i0_a, "A")
     n = require_non_negative("n0", n0_rpm, "rpm")
-    t_max = math.inf if t_max_s == math.inf else require_positive("t_max", t_max_s, "s")
+    t_max = require_positive("t_max", t_max_s, "s")
     if not 1e-12 <= rtol <= 1e-2:
         raise InputError(f"rtol ({rtol:g}) must lie from 1e-12 to 1e-2")
     max_steps = require_count("max_steps", max_steps, 1, 10_000_000)
@@ -577,11 +606,14 @@ def integrate_notch(
         if i_cut is not None:
             if rose and i1 <= i_cut:
                 s_end, status = _root(lambda s: _at(pi, s) - i_cut, 0.0, 1.0, i - i_cut, i1 - i_cut), "cut"
-            elif not rose and max(i, i1) > i_cut:
-                rose = True  # the current rose past the cut-out value within this step: look for its fall next
-                if i1 <= i_cut:
-                    s_up = _slope_zero(pi) or 0.5
-                    s_end, status = _root(lambda s: _at(pi, s) - i_cut, s_up, 1.0, _at(pi, s_up) - i_cut, i1 - i_cut), "cut"
+            elif not rose:
+                # Did the current rise past the cut-out value within this step (at its end or at a peak inside)?
+                s_up = _slope_zero(pi) if fi > 0.0 >= f1[0] else None
+                i_up = i1 if s_up is None else _at(pi, s_up)
+                if i_up > i_cut:
+                    rose = True
+                    if i1 <= i_cut:  # and fell back to it before the step's end
+                        s_end, status = _root(lambda s: _at(pi, s) - i_cut, s_up, 1.0, i_up - i_cut, i1 - i_cut), "cut"
         if n1 <= 0.0 and (n > 0.0 or fn < 0.0):
             s_rest = _root(lambda s: _at(pn, s), 0.0, 1.0, n, n1) if n > 0.0 else 0.0
             if s_rest <= s_end:
