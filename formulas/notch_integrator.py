@@ -395,7 +395,11 @@ def _slope(a, s):
 
 
 def _root(f, lo, hi, f_lo, f_hi):
-    """A root of ``f`` in [lo, hi] where f(lo) and f(hi) differ in sign: Illinois false position."""
+    """A root of ``f`` in [lo, hi] where f(lo) and f(hi) differ in sign: the Illinois false position.
+
+    M. Dowell and P. Jarratt, "A modified regula falsi method for computing the root of an equation,"
+    *BIT*, vol. 11, pp. 168-174, 1971 (from memory).
+    """
     side = 0
     for _ in range(60):
         s = (lo * f_hi - hi * f_lo) / (f_hi - f_lo)

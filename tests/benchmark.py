@@ -7,17 +7,15 @@ zero-argument callables; add yours to ``CASES`` under your subject.
 
 from __future__ import annotations
 
+import math
 import statistics
 import timeit
 
 import numpy as np
+from scipy.integrate import solve_ivp
 
 from notchwise.addin import udfs
 from notchwise.workbooks.audit import audit_bytes
-import math
-
-from scipy.integrate import solve_ivp
-
 from notchwise.formulas import start_sim
 from notchwise.formulas.dc_motor import (NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, developed_torque_nm,
                                          effective_supply_v, magnetization_curve, steady_speed_rpm)
@@ -198,7 +196,7 @@ def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2
     v_eff = v_supply_v - brush_drop_v
     c1 = NM_PER_V_A_PER_RPM
     torque = start_sim.load_torque(load)
-    y, t0, out = [0.0, 0.0, 0.0], 0.0, []
+    y, out = [0.0, 0.0, 0.0], []
     for r in notch_resistances_ohm(motor.r_ohm, np.asarray(sections_ohm, dtype=float))[:-1]:
         def rhs(t, state):
             i, n = state[0], state[1]
@@ -213,7 +211,6 @@ def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2
         solution = solve_ivp(rhs, (0.0, 60.0), y, method="LSODA", rtol=1e-9, atol=1e-9, events=falls)
         y = [float(solution.y[0, -1]), float(solution.y[1, -1]), 0.0]
         out.append((solution.t[-1], float(np.max(solution.y[0])), float(solution.y[2, -1])))
-        t0 += solution.t[-1]
     return out
 
 
