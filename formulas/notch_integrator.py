@@ -61,7 +61,7 @@ from dataclasses import dataclass, field
 import numpy as np
 from scipy.interpolate import PchipInterpolator
 
-from .dc_motor import NM_PER_V_A_PER_RPM
+from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
 from .errors import InputError, as_float_array, quantity, require_count, require_non_negative, require_positive
 
 __all__ = [
@@ -78,8 +78,6 @@ __all__ = [
 
 #: Why an integration stopped: the normal ends, then the ends a caller must report.
 STATUSES = ("cut", "settled", "rest", "time", "step cap", "curve end")
-#: Radians per second per rpm.
-_RAD_S_PER_RPM = 2.0 * math.pi / 60.0
 _C1 = NM_PER_V_A_PER_RPM
 #: Three-point Gauss-Legendre nodes on [0, 1] and weights (Eq. 25.4.29 of [4]).
 _GAUSS = ((0.5 - math.sqrt(15.0) / 10.0, 5.0 / 18.0), (0.5, 8.0 / 18.0), (0.5 + math.sqrt(15.0) / 10.0, 5.0 / 18.0))
@@ -485,7 +483,7 @@ def integrate_notch(
         Most accepted steps, 1 to 10,000,000; reaching it ends the run with
         status "step cap". [-]
     keep_history : bool, optional
-        Keep the step ends for :meth:`NotchRun.state_at`.
+        Keep the step ends for :meth:`NotchRun.state_at`. [-]
 
     Returns
     -------
@@ -559,7 +557,7 @@ def integrate_notch(
     steps = rejected = 0
     status, message = "", ""
     gamma = 0.5
-    work_per_rpm_s = t_const * _RAD_S_PER_RPM
+    work_per_rpm_s = t_const * RAD_S_PER_RPM
     while True:
         if steps >= max_steps:
             status = "step cap"
@@ -639,7 +637,7 @@ def integrate_notch(
         if constant_load:
             work += work_per_rpm_s * h * _integral(pn, s_end)
         else:
-            work += _RAD_S_PER_RPM * h * s_end * sum(
+            work += RAD_S_PER_RPM * h * s_end * sum(
                 w * _load_and_slope(speeds, torques, _at(pn, s_end * x))[0] * _at(pn, s_end * x) for x, w in _GAUSS)
         if s_end < 1.0:
             h_end = s_end * h
