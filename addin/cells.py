@@ -23,7 +23,7 @@ import math
 import numpy as np
 import xlwings as xw
 
-from notchwise.formulas.errors import DesignError, InputError, InputTypeError, as_float, choose
+from notchwise.formulas.errors import DesignError, InputError, InputTypeError, as_float, choose, shown
 
 __all__ = [
     "ERROR_PREFIX",
@@ -48,6 +48,8 @@ __all__ = [
 
 ERROR_PREFIX = "Error: "
 CATEGORY = "Notchwise"
+#: Longest message a cell shows [characters]: one line that fits a tooltip (common practice, no source).
+MESSAGE_CHARACTERS = 300
 _EXPECTED = (InputError, InputTypeError, DesignError)
 _log = logging.getLogger(__name__)
 
@@ -72,7 +74,7 @@ def cell_function(tables: tuple = (), **arg_docs: str):
             try:
                 bound = signature.bind(*args, **kwargs)
             except TypeError as error:  # wrong number of arguments from a hand-written call
-                return f"{ERROR_PREFIX}{func.__name__}: {error}"
+                return _message(f"{func.__name__}: {error}")
             return guard(func, *bound.args, **bound.kwargs)
 
         # xlwings reads the signature to write the VBA wrapper: keep the wrapped one.
@@ -93,15 +95,36 @@ def guard(compute, *args, **kwargs):
 
     Our own errors become their message; any other exception is a fault of
     ours, logged and still shown as text, so a cell never sees a traceback.
+    A single figure that is not finite becomes words (Excel has no infinite
+    number). Every message is one line of at most ``MESSAGE_CHARACTERS``.
     """
     try:
-        return compute(*args, **kwargs)
+        result = compute(*args, **kwargs)
     except _EXPECTED as error:
-        return ERROR_PREFIX + str(error)
+        return _message(str(error))
     except Exception as error:
         _log.exception("%s failed", getattr(compute, "__name__", compute))
         name = getattr(compute, "__name__", "a function")
-        return f"{ERROR_PREFIX}internal fault in {name} ({type(error).__name__}: {error}); please report it"
+        return _message(f"internal fault in {name} ({type(error).__name__}: {error}); please report it")
+    if isinstance(result, (float, np.floating)) and not math.isfinite(result):
+        name = getattr(compute, "__name__", "")
+        return _not_finite(result, name if name.isidentifier() else "the result")
+    return result
+
+
+def _no_finite_value(result: float, what: str) -> str:
+    """The words for a figure that is not finite (Excel has no infinite number), naming ``what`` it is."""
+    return f"{what} has no finite value here (the formula gives {result})"
+
+
+def _not_finite(result: float, what: str = "the result") -> str:
+    return _message(f"{_no_finite_value(result, what)}: check the inputs")
+
+
+def _message(text: str) -> str:
+    """The cell's one line: ``Error: `` and the text, whitespace runs made one space, cut to fit."""
+    line = ERROR_PREFIX + " ".join(text.split())
+    return line if len(line) <= MESSAGE_CHARACTERS else line[: MESSAGE_CHARACTERS - 1] + "…"
 
 
 def each(name: str, value, unit: str, compute):
@@ -122,14 +145,17 @@ def at_once(name: str, value, unit: str, compute, never: str = ""):
 
     ``compute`` takes a 1-D array and returns one result per entry; where a
     result is infinite (the element never operates) the cell shows the words
-    ``never``, not a number. A single cell gives a single result, a range a
+    ``never``, not a number; any other result that is not finite shows a message. A single cell gives a single result, a range a
     column, as :func:`each` does; a bad entry fails the whole range with its
     own name, and the core is called once however long the range is.
     """
     single = not isinstance(value, (list, tuple))
     values = np.array([number(name, value, unit)]) if single else column(name, value, unit)
     results = np.asarray(compute(values), dtype=float).ravel()
-    cells = [never if r == math.inf else r for r in results.tolist()]
+    cells = [
+        r if math.isfinite(r) else never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
+        for k, r in enumerate(results.tolist())
+    ]
     return cells[0] if single else [[c] for c in cells]
 
 
@@ -162,7 +188,7 @@ def flag(name: str, value, default: bool) -> bool:
         return bool(value)
     if isinstance(value, str) and value.strip().upper() in ("TRUE", "FALSE"):
         return value.strip().upper() == "TRUE"
-    raise InputTypeError(f"{name} ({value!r}) must be TRUE or FALSE")
+    raise InputTypeError(f"{name} ({shown(value)}) must be TRUE or FALSE")
 
 
 def option(name: str, value, options) -> str:
@@ -196,10 +222,17 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
         raise InputError(f"{name} has {len(rows)} rows of numbers; at least {min_rows} are needed")
     if len(rows[0]) < len(columns):
         raise InputError(f"{name} needs {len(columns)} columns ({', '.join(columns)}); it has {len(rows[0])}")
+    for r, row in enumerate(rows):
+        if len(row) != len(rows[0]):
+            raise InputError(f"{name} rows differ in length: row {r + 1} has {len(row)} cells, row 1 has {len(rows[0])}")
     if set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}:
         # Plain numbers (a 10,000-row history): checked at once; anything else takes the path that names the cell.
-        numbers = np.array(rows, dtype=float) if len({len(row) for row in rows}) == 1 else None
-        if numbers is not None and np.all(np.isfinite(numbers)):
+        with np.errstate(over="ignore"):
+            try:
+                numbers = np.array(rows, dtype=float)
+            except OverflowError:  # an int beyond any float: the path below names its cell
+                numbers = np.full((1, 1), math.nan)
+        if np.all(np.isfinite(numbers)):
             return numbers[:, : len(columns)]
     return np.array(
         [
@@ -278,9 +311,12 @@ def _filled_cells(name: str, value, unit: str) -> list:
     return cells
 
 
-def _cell(value):
+def _cell(value, label: str = "the result"):
+    """A value as a cell holds it: NaN (a filler) blank, an infinity words naming ``label``."""
     if isinstance(value, (float, np.floating)) and not math.isfinite(value):
-        return "" if math.isnan(value) else ("inf" if value > 0 else "-inf")
+        if math.isnan(value):
+            return ""
+        return _no_finite_value(value, label)
     if isinstance(value, np.generic):
         return value.item()
     return value
@@ -289,10 +325,11 @@ def _cell(value):
 def spill(header: list, rows, headers: bool = True) -> list:
     """Rows of a result table for a spilled range, with a header row when asked.
 
-    NaN becomes a blank cell; infinities become the text ``inf`` (Excel has no
-    infinite number).
+    NaN is a filler and becomes a blank cell; an infinity becomes words naming
+    its column (Excel has no infinite number).
     """
-    body = [[_cell(v) for v in row] for row in rows]
+    labels = [str(h).split(" [")[0] for h in header]
+    body = [[_cell(v, labels[c] if c < len(labels) else "the result") for c, v in enumerate(row)] for row in rows]
     return [list(header)] + body if headers else body
 
 

@@ -16,6 +16,7 @@ __all__ = [
     "InputError",
     "InputTypeError",
     "DesignError",
+    "shown",
     "quantity",
     "as_float",
     "as_float_array",
@@ -25,6 +26,7 @@ __all__ = [
     "require_non_negative",
     "require_below",
     "require_count",
+    "require_kind",
     "choose",
 ]
 
@@ -41,10 +43,31 @@ class DesignError(ValueError):
     """The arguments are valid one by one but no design meets them together."""
 
 
+#: Longest quotation of a value in a message [characters]; a cell holds one short line.
+SHOWN_CHARACTERS = 40
+
+
+def shown(value) -> str:
+    """A value as a message quotes it: one line, long text and huge numbers shortened.
+
+    ``'xxxx…' (100000 characters)`` for a long text, ``1.000e+400`` for an
+    integer too large for a float, ``repr`` otherwise.
+    """
+    if isinstance(value, int) and not isinstance(value, bool) and abs(value) >= 10**15:
+        digits = str(abs(value))
+        return f"{'-' if value < 0 else ''}{digits[0]}.{digits[1:4]}e+{len(digits) - 1}"
+    if isinstance(value, Real) and not isinstance(value, bool):
+        return f"{float(value):.4g}"
+    text = repr(value)
+    if len(text) <= SHOWN_CHARACTERS:
+        return text
+    size = f" ({len(value)} characters)" if isinstance(value, str) else ""
+    return f"{text[: SHOWN_CHARACTERS - 1]}…{size}"
+
+
 def quantity(value: float, unit: str = "") -> str:
     """Format a value with its unit for a message, e.g. ``260 A``."""
-    text = f"{value:.4g}" if isinstance(value, Real) else repr(value)
-    return f"{text} {unit}".rstrip()
+    return f"{shown(value)} {unit}".rstrip()
 
 
 def as_float(name: str, value, unit: str = "") -> float:
@@ -56,8 +79,11 @@ def as_float(name: str, value, unit: str = "") -> float:
     if value is None or (isinstance(value, str) and not value.strip()):
         raise InputTypeError(f"{name} is empty; a number{_in(unit)} is needed")
     if isinstance(value, bool) or not isinstance(value, (Real, np.number)):
-        raise InputTypeError(f"{name} ({value!r}) is not a number{_in(unit)}")
-    number = float(value)
+        raise InputTypeError(f"{name} ({shown(value)}) is not a number{_in(unit)}")
+    try:
+        number = float(value)
+    except OverflowError:  # an int beyond any float, e.g. 10**400
+        raise InputError(f"{name} ({shown(value)}) is too large for a number{_in(unit)}") from None
     if not math.isfinite(number):
         raise InputError(f"{name} ({number}) must be a finite number{_in(unit)}")
     return number
@@ -75,7 +101,10 @@ def as_float_array(name: str, values, unit: str = "", min_length: int = 1) -> np
             k = int(np.argmax(bad))
             as_float(f"{name} entry {k + 1}", numbers[k], unit)
     else:
-        flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+        try:
+            flat = np.ravel(np.asarray(values, dtype=object)) if not np.isscalar(values) else [values]
+        except ValueError:  # rows of unequal length, nested unevenly
+            raise InputError(f"{name} ({shown(values)}) has rows of unequal length; a list of numbers is needed") from None
         numbers = np.array([as_float(f"{name} entry {k + 1}", v, unit) for k, v in enumerate(flat)])
     if numbers.size < min_length:
         raise InputError(f"{name} has {numbers.size} values; at least {min_length} are needed")
@@ -145,15 +174,22 @@ def require_count(name: str, value, low: int, high: int) -> int:
     return int(number)
 
 
+def require_kind(name: str, value, kind: type, what: str):
+    """Return ``value`` if it is a ``kind``, else refuse it naming ``name`` and ``what`` is wanted."""
+    if not isinstance(value, kind):
+        raise InputTypeError(f"{name} ({shown(value)}) is not {what}")
+    return value
+
+
 def choose(name: str, value, options) -> str:
     """Return the option that ``value`` names, case-insensitively, or list the valid ones."""
     if not isinstance(value, str) or not value.strip():
-        raise InputTypeError(f"{name} ({value!r}) must be one of: {', '.join(options)}")
+        raise InputTypeError(f"{name} ({shown(value)}) must be one of: {', '.join(options)}")
     wanted = " ".join(value.split()).casefold()
     for option in options:
         if option.casefold() == wanted:
             return option
-    raise InputError(f"{name} ({value!r}) must be one of: {', '.join(options)}")
+    raise InputError(f"{name} ({shown(value)}) must be one of: {', '.join(options)}")
 
 
 def _in(unit: str) -> str:

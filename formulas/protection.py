@@ -50,6 +50,7 @@ from .errors import DesignError, InputError, quantity, require_non_negative, req
 from .relays import (
     Curve,
     current_history,
+    curve_named,
     definite_progress,
     definite_time_s,
     instantaneous_progress,
@@ -57,7 +58,7 @@ from .relays import (
     operate_progress,
     operate_time_s,
 )
-from .thermal import ThermalElement, thermal_state
+from .thermal import ThermalElement, checked_element, thermal_state
 
 __all__ = [
     "SERVICE_FACTOR",
@@ -166,6 +167,9 @@ def ride_through(
     list of ElementCheck
         One per element: inverse time, then high-set, then thermal.
     """
+    curve = curve_named(curve)
+    if thermal is not None:
+        checked_element(thermal, "thermal")
     t, currents = current_history(t_s, i_a)
     progress = operate_progress(curve, t, currents, pickup_a, multiplier)
     reset = "falls back at the C37.112 reset rate" if curve.t_reset is not None else "resets at once"
@@ -273,6 +277,7 @@ def propose_settings(
         both rides through the start and clears the stall in time.
     """
     t, currents = current_history(t_s, i_a)
+    curve = curve_named(curve)
     flc = require_positive("i_full_load", i_full_load_a, "A")
     sf = require_positive("service_factor", service_factor)
     i_stall = require_positive("i_stall", i_stall_a, "A")
@@ -374,6 +379,7 @@ def coordinate_upstream(
         The motor element's time at ``i_max_a``, the upstream time needed
         and the upstream multiplier.
     """
+    curve_up, curve = curve_named(curve_up, "curve_up"), curve_named(curve)
     i_max = require_positive("i_max", i_max_a, "A")
     cti = require_positive("cti", cti_s, "s")
     t_inverse = float(operate_time_s(curve, i_max, pickup_a, multiplier))

@@ -52,12 +52,14 @@ import numpy as np
 from .errors import (
     DesignError,
     InputError,
+    InputTypeError,
     as_magnitudes,
     as_time_series,
     choose,
     quantity,
     require_non_negative,
     require_positive,
+    shown,
 )
 
 __all__ = [
@@ -130,8 +132,13 @@ _ALIASES = {"IEC A": "IEC SI", "IEC B": "IEC VI", "IEC C": "IEC EI"}
 CURVE_NAMES = (*CURVES, *_ALIASES)
 
 
-def curve_named(name: str, argument: str = "curve") -> Curve:
-    """The curve ``name`` names (``IEC SI``, ``IEC A``, ``IEEE VI``, ...), or a message naming ``argument`` and listing them."""
+def curve_named(name: str | Curve, argument: str = "curve") -> Curve:
+    """The curve ``name`` names (``IEC SI``, ``IEC A``, ``IEEE VI``, ...), or a message naming ``argument`` and listing them.
+
+    A :class:`Curve` is returned as it is, so every function taking a curve checks it with this one call.
+    """
+    if isinstance(name, Curve):
+        return name
     chosen = choose(argument, name, CURVE_NAMES)
     return CURVES[_ALIASES.get(chosen, chosen)]
 
@@ -185,6 +192,7 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
     ----------
     .. [1] IEC 60255-151:2009, Table 1; IEEE C37.112-1996, Table 1.
     """
+    curve = curve_named(curve)
     currents = _currents(i_a)
     pickup, mult = _settings(pickup_a, multiplier)
     with np.errstate(over="ignore"):
@@ -225,6 +233,7 @@ def multiplier_for_time(curve: Curve, i_a: float, pickup_a: float, t_s: float) -
     float
         :math:`m = t / (k/(M^\alpha - 1) + c)`. [-]
     """
+    curve = curve_named(curve)
     m = _operating_multiple(i_a, pickup_a)
     t = require_positive("target_time", t_s, "s")
     at_one_s = float(_shape(m, curve))
@@ -258,6 +267,7 @@ def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: fl
         Where ``t_s`` is at or below :math:`m c`, the time the IEEE curves
         tend to at infinite current: no current operates that fast.
     """
+    curve = curve_named(curve)
     t = require_positive("target_time", t_s, "s")
     pickup, mult = _settings(pickup_a, multiplier)
     floor_s = mult * curve.c
@@ -298,6 +308,7 @@ def reset_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
     ----------
     .. [1] IEEE C37.112-1996, reset equation and Table 1 (constant tr).
     """
+    curve = curve_named(curve)
     if curve.t_reset is None:
         raise InputError(
             f"curve ({curve.name!r}) has no inverse reset characteristic: IEC curves reset at once or "
@@ -406,14 +417,17 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
     ----------
     .. [1] IEEE C37.112-1996, integral equation of the operate and reset characteristics.
     """
+    curve = curve_named(curve)
+    if inverse_reset is not None and not isinstance(inverse_reset, (bool, np.bool_)):
+        raise InputTypeError(f"inverse_reset ({shown(inverse_reset)}) must be True, False or None")
     t, currents = current_history(t_s, i_a)
     pickup, mult = _settings(pickup_a, multiplier)
     inverse = curve.t_reset is not None if inverse_reset is None else bool(inverse_reset)
     if inverse and curve.t_reset is None:
         raise InputError(f"curve ({curve.name!r}) has no inverse reset characteristic; reset it at once")
     dt = np.diff(t)
-    m = currents[:-1] / pickup
-    with np.errstate(divide="ignore"):
+    with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
+        m = currents[:-1] / pickup
         rises = dt / (mult * _shape(m, curve))  # integral equation of [1]: dt / t(I); 0 where t is inf
     if not np.all(np.isfinite(rises)):
         raise InputError(

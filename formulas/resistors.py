@@ -31,7 +31,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
+from .errors import DesignError, InputError, as_float, as_float_array, choose, quantity, require_non_negative, require_positive
 from .grading import checked_sections
 from .start_sim import StartResult, simulate_start
 
@@ -238,11 +238,11 @@ def resistance_at_c(r20_ohm, temperature_c, alloy):
         :math:`R = R_{20}[1 + \alpha(\theta - 20)]`. [ohm]
     """
     alpha = _alloy(alloy).alpha_per_k
-    r = np.asarray(r20_ohm, dtype=float)
-    theta = np.asarray(temperature_c, dtype=float)
-    if not np.all(np.isfinite(r)) or np.any(r <= 0.0):
-        raise InputError("r20 must be above zero ohm")
-    if not np.all(np.isfinite(theta)) or np.any(theta < -60.0):
+    as_float_array("r20", r20_ohm, "ohm"), as_float_array("temperature", temperature_c, "°C")  # finite numbers, by name
+    r, theta = np.asarray(r20_ohm, dtype=float), np.asarray(temperature_c, dtype=float)
+    if np.any(r <= 0.0):
+        raise InputError(f"r20 ({quantity(float(np.min(r)), 'ohm')}) must be above zero")
+    if np.any(theta < -60.0):
         raise InputError(f"temperature ({quantity(float(np.min(theta)), '°C')}) must be -60 °C or above")
     return (r * (1.0 + alpha * (theta - REFERENCE_C)))[()]  # linear law of [2]
 
@@ -250,7 +250,7 @@ def resistance_at_c(r20_ohm, temperature_c, alloy):
 def rise_verdict(rise_k, limit: str = "short time") -> tuple:
     """``ok`` or the excess, per section, against a limit of :data:`TEMPERATURE_RISE_LIMITS_K`."""
     limit_k = TEMPERATURE_RISE_LIMITS_K[choose("limit", limit, tuple(TEMPERATURE_RISE_LIMITS_K))]
-    rises = np.atleast_1d(np.asarray(rise_k, dtype=float))
+    rises = as_float_array("temperature rise", rise_k, "K")
     require_non_negative("temperature rise", float(rises.min()), "K")
     return tuple(
         "ok" if r <= limit_k else f"rise over the {limit} limit ({quantity(limit_k, 'K')}, IEEE Std 32, from memory)"
@@ -316,17 +316,15 @@ def cold_hot_start(
     masses = as_float_array("mass", mass_kg, "kg")
     if masses.size not in (1, sections.size):
         raise InputError(f"mass has {masses.size} entries; give one for all sections or one per section ({sections.size})")
-    ambient = as_float_array("ambient", ambient_c, "°C")[0]
+    ambient = as_float("ambient", ambient_c, "°C")
+    hot = None if hot_c is None else as_float("hot", hot_c, "°C")
+    if hot is not None and hot < ambient:  # checked before any simulation runs
+        raise InputError(f"hot ({quantity(hot, '°C')}) must not be below ambient ({quantity(ambient, '°C')})")
     r_cold = resistance_at_c(sections, ambient, alloy)
     run = dict(brush_drop_v=brush_drop_v, i_cut_a=i_cut_a, dwell_s=dwell_s)
     cold = simulate_start(motor, v_supply_v, r_cold, l_circuit_h, inertia_kgm2, load, **run)
     rise = np.atleast_1d(adiabatic_rise_k(section_energy_j(cold.r_section_ohm, cold.i2t_a2s), masses, alloy))
-    if hot_c is None:
-        hot_temperature = ambient + rise
-    else:
-        hot_temperature = np.full(sections.size, as_float_array("hot", hot_c, "°C")[0])
-        if hot_temperature[0] < ambient:
-            raise InputError(f"hot ({quantity(hot_temperature[0], '°C')}) must not be below ambient ({quantity(ambient, '°C')})")
+    hot_temperature = ambient + rise if hot is None else np.full(sections.size, hot)
     r_hot = resistance_at_c(sections, hot_temperature, alloy)
     hot = simulate_start(motor, v_supply_v, r_hot, l_circuit_h, inertia_kgm2, load, **run)
     return ColdHotStart(cold, hot, rise, hot_temperature, np.atleast_1d(r_cold), np.atleast_1d(r_hot))

@@ -38,10 +38,12 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import InputError, as_magnitudes, quantity, require_non_negative, require_positive
+from .errors import InputError, as_magnitudes, quantity, require_kind, require_non_negative, require_positive
 from .relays import Progress, current_history
 
-__all__ = ["MAX_OVERLOAD", "ThermalElement", "thermal_element", "thermal_trip_time_s", "thermal_state"]
+__all__ = [
+    "MAX_OVERLOAD", "ThermalElement", "thermal_element", "checked_element", "thermal_trip_time_s", "thermal_state",
+]
 
 #: Largest current over k i_base a history may hold: far past any motor, and the level stays finite (ours). [-]
 MAX_OVERLOAD = 1e6
@@ -85,6 +87,11 @@ def thermal_element(i_base_a: float, k_factor: float, tau_s: float) -> ThermalEl
     )
 
 
+def checked_element(element, name: str = "element") -> ThermalElement:
+    """``element`` if it is a :class:`ThermalElement` (:func:`thermal_element`), else a message naming ``name``."""
+    return require_kind(name, element, ThermalElement, "a thermal element (made by thermal_element)")
+
+
 def _prior_level(element: ThermalElement, i_prior_a: float) -> float:
     prior = require_non_negative("i_prior", i_prior_a, "A")
     if prior >= element.i_trip_a:
@@ -122,6 +129,7 @@ def thermal_trip_time_s(element: ThermalElement, i_a, i_prior_a: float = 0.0):
     ----------
     .. [1] IEC 60255-149:2013, operate-time equation (cold: :math:`I_P = 0`; hot).
     """
+    element = checked_element(element)
     currents = as_magnitudes("current", i_a, "A")
     prior_level = _prior_level(element, i_prior_a)
     trips = currents > element.i_trip_a
@@ -162,6 +170,7 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     ----------
     .. [1] IEC 60255-149:2013, thermal model of the element.
     """
+    element = checked_element(element)
     t, currents = current_history(t_s, i_a)
     if np.max(currents) > MAX_OVERLOAD * element.i_trip_a:
         raise InputError(

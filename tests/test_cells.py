@@ -56,4 +56,4 @@ def test_guard_turns_a_fault_of_ours_into_text():
 
 
 def test_spill_blanks_nan_and_names_infinity():
-    assert spill(["a", "b"], [(np.float64(1.5), math.nan), (math.inf, 2)], headers=False) == [[1.5, ""], ["inf", 2]]
+    assert spill(["a", "b"], [(np.float64(1.5), math.nan), (math.inf, 2)], headers=False) == [[1.5, ""], ["a has no finite value here (the formula gives inf)", 2]]
