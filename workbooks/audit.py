@@ -282,7 +282,7 @@ def calls_nw(formula: str) -> bool:
 def _tokens(formula: str) -> list:
     try:
         return [t for t in Tokenizer(formula).items if t.type != "WHITE-SPACE"]
-    except TokenizerError as error:
+    except (TokenizerError, IndexError) as error:  # openpyxl's tokenizer pops an empty stack on some damaged formulas
         raise _NotRecomputable(f"the formula cannot be parsed ({error})") from None
 
 
