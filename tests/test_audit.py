@@ -19,7 +19,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from notchwise.addin import CAUTION
-from notchwise.workbooks import audit
+from notchwise.workbooks import audit, audit_compare, audit_recompute
 from notchwise.workbooks.cli import main
 from tests import workbook_files as wf
 
@@ -39,7 +39,7 @@ def test_closed_form_results_agree_and_exit_0(tmp_path, capsys):
     status, report = run_audit(tmp_path, wf.torque_workbook([25.0, 150.0, 390.0]))
     out = capsys.readouterr().out
     assert status == 0, out
-    assert "3 cells call NW_ functions: 3 agree, 0 differ" in out
+    assert "3 cells checked: 3 agree, 0 differ" in out
     assert CAUTION in out
     page = report.read_text(encoding="utf-8")
     assert "competent person" in page and "SHA-256" in page and "1e-09" in page
@@ -80,29 +80,27 @@ def test_within_the_stated_tolerance_agrees(tmp_path, capsys):
 @pytest.mark.parametrize(
     "formula, reason",
     [
-        ("=2*NW_SERIES_TORQUE(A1,lin_curve,lin_speed)", "larger expression"),
-        ("=NW_SERIES_TORQUE(A1+1,lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(SUM(A1),lin_curve,lin_speed)", "is an expression"),
-        ("=NW_NO_SUCH_THING(A1)", "not a function of this Notchwise version"),
+        ("=NW_NO_SUCH_THING(A1)", "NW_NO_SUCH_THING is not a function of this Notchwise version"),
+        ("=IFERRORX(NW_SERIES_TORQUE(A1,lin_curve,lin_speed),0)", "uses IFERRORX, a spreadsheet function the audit cannot evaluate"),
         ("=NW_SERIES_TORQUE(A1,[2]Sheet1!A1:B4,lin_speed)", "another workbook"),
         ("=NW_SERIES_TORQUE(A1,Nowhere!A1:B4,lin_speed)", "does not have"),
         ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed,1,2)", "at most 3 arguments"),
-        ("=NW_SERIES_TORQUE({1,2},lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE((A1),lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(A1%,lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(Torques:Torques!A1,lin_curve,lin_speed)", "spans several sheets"),
+        ("=NW_SERIES_TORQUE(Torques:Torques!A1,lin_curve,lin_speed)", "several sheets"),
         ("=NW_SERIES_TORQUE(Table1[amps],lin_curve,lin_speed)", "neither a cell reference nor a defined name"),
+        ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed", "cannot"),
     ],
 )
-def test_other_formulas_are_listed_not_recomputed_with_the_reason(tmp_path, capsys, formula, reason):
+def test_what_cannot_be_recomputed_is_named_with_its_reason_and_exits_3(tmp_path, capsys, formula, reason):
     def odd(book, sheet):
         sheet.write_formula("C1", formula, None, 1.0)
 
     status, report = run_audit(tmp_path, wf.torque_workbook([50.0], extra=odd))
-    assert status == 0
+    out = capsys.readouterr().out
+    assert status == 3, out
     cell = {c.address: c for c in audit.audit_bytes(wf.torque_workbook([50.0], extra=odd)).cells}["C1"]
-    assert cell.verdict == "not recomputed" and reason in cell.reason, cell.reason
-    assert "1 not recomputed" in capsys.readouterr().out
+    assert cell.verdict == "not verified" and reason in cell.reason, cell.reason
+    assert "1 not verified" in out and f"NOT VERIFIED: Torques!C1: {cell.reason}" in out
+    assert "exit status 3" in out and "could not be verified" in report.read_text(encoding="utf-8")
 
 
 def test_a_cell_without_a_saved_result_is_not_compared(tmp_path):
@@ -110,7 +108,7 @@ def test_a_cell_without_a_saved_result_is_not_compared(tmp_path):
         sheet.write_formula("C1", "=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)", None, "")
 
     cell = {c.address: c for c in audit.audit_bytes(wf.torque_workbook([50.0], extra=blank)).cells}["C1"]
-    assert cell.verdict == "not recomputed" and "no saved result" in cell.reason
+    assert cell.verdict == "not verified" and "no saved result" in cell.reason
 
 
 def test_report_escapes_what_the_workbook_says(tmp_path, capsys):
@@ -236,7 +234,7 @@ def test_missing_file_and_a_folder(tmp_path, capsys):
     assert main(["audit", str(tmp_path / "absent.xlsx")]) == 2
     assert main(["audit", str(tmp_path)]) == 2
     err = capsys.readouterr().err
-    assert err.count("is not a file") == 2 and "Traceback" not in err
+    assert "absent.xlsx not found" in err and err.count("is not a file") == 1 and "Traceback" not in err
 
 
 def test_macro_part_is_reported_never_run(tmp_path, capsys):
@@ -264,18 +262,19 @@ def test_progress_bar_on_large_workbooks(tmp_path, capsys, monkeypatch):
 
 
 def test_legacy_array_padding_and_scalar_fill_are_understood():
-    assert audit.compare([[1.0, 2.0], [3.0, 4.0], ["#N/A", "#N/A"]], [[1.0, 2.0], [3.0, 4.0]])[0]
-    assert not audit.compare([[1.0, 2.0], [3.0, 4.0], [5.0, "#N/A"]], [[1.0, 2.0], [3.0, 4.0]])[0]
-    assert audit.compare([["x", "x"]], [["x"]])[0]
-    assert not audit.compare([[1.0]], [[1.0], [2.0]])[0]
-    assert audit.compare([[None]], [[""]])[0]
-    assert not audit.compare([[True]], [[1.0]])[0]
+    assert audit_compare.compare([[1.0, 2.0], [3.0, 4.0], ["#N/A", "#N/A"]], [[1.0, 2.0], [3.0, 4.0]]).agrees
+    assert not audit_compare.compare([[1.0, 2.0], [3.0, 4.0], [5.0, "#N/A"]], [[1.0, 2.0], [3.0, 4.0]]).agrees
+    assert audit_compare.compare([["x", "x"]], [["x"]]).agrees
+    assert not audit_compare.compare([[1.0]], [[1.0], [2.0]]).agrees
+    assert audit_compare.compare([[None]], [[""]]).agrees
+    assert not audit_compare.compare([[True]], [[1.0]]).agrees
 
 
 def test_excel_prefixes_of_unknown_functions_are_read():
-    assert audit.calls_nw("=_xludf.NW_SERIES_TORQUE(A1,B1:C4,D1)")
-    assert audit.split_call("=_xludf.nw_series_torque(A1, B1:C4 ,D1)")[0] == "NW_SERIES_TORQUE"
-    assert not audit.calls_nw('="NW_SERIES_TORQUE(1)"')
+    assert audit_recompute.calls_nw("=_xludf.NW_SERIES_TORQUE(A1,B1:C4,D1)")
+    assert audit_recompute.prepare("=_xludf.nw_series_torque(A1, B1:C4 ,D1)").calls == [
+        ("NW_SERIES_TORQUE", ["A1", "B1:C4", "D1"])]
+    assert not audit_recompute.calls_nw('="NW_SERIES_TORQUE(1)"')
 
 
 def test_an_xlsxwriter_array_formula_over_a_larger_range(tmp_path):
@@ -307,7 +306,7 @@ def test_any_damaged_copy_of_a_workbook_is_read_or_refused_never_a_crash(data):
     except audit.UnreadableWorkbook as error:
         assert str(error) and "\n" not in str(error)
     else:
-        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)
+        assert all(c.verdict in ("agrees", "differs", "not verified") for c in found.cells)
 
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
@@ -326,4 +325,4 @@ def test_any_damaged_sheet_inside_a_sound_zip_is_read_or_refused_never_a_crash(d
     except audit.UnreadableWorkbook as error:
         assert str(error)
     else:
-        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)
+        assert all(c.verdict in ("agrees", "differs", "not verified") for c in found.cells)
