@@ -10,6 +10,10 @@ from __future__ import annotations
 
 import hashlib
 import io
+import os
+import stat
+import subprocess
+import sys
 import zipfile
 from pathlib import Path
 
@@ -326,3 +330,193 @@ def test_any_damaged_sheet_inside_a_sound_zip_is_read_or_refused_never_a_crash(d
         assert str(error)
     else:
         assert all(c.verdict in ("agrees", "differs", "not verified") for c in found.cells)
+
+
+# -- nothing unverified passes (whole formulas, typed-over results, no NW_ cells, foreign saves) ----
+
+
+def _formula_cell(formula: str, saved):
+    def add(book, sheet):
+        sheet.write_formula("C1", formula, None, saved)
+
+    return add
+
+
+@pytest.mark.parametrize(
+    "formula, closed_form",
+    [
+        # ROUND to 4 decimals: ISO/IEC 26300-2 (OpenFormula), 6.17.51 ROUND; Python's round agrees away from ties.
+        ("=ROUND(NW_SERIES_TORQUE(A1,lin_curve,lin_speed),4)", round(wf.torque_closed_form(50.0), 4)),
+        ("=NW_SERIES_TORQUE(A1*1,lin_curve,lin_speed)", wf.torque_closed_form(50.0)),
+        ("=2*NW_SERIES_TORQUE((A1+0),lin_curve,lin_speed)", 2 * wf.torque_closed_form(50.0)),
+        ("=_xlfn.IFERROR(NW_SERIES_TORQUE(SUM(A1),lin_curve,lin_speed),0)", wf.torque_closed_form(50.0)),
+        ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)+NW_SERIES_TORQUE(A1,lin_curve,lin_speed)",
+         2 * wf.torque_closed_form(50.0)),
+    ],
+)
+def test_whole_formulas_are_recomputed_and_a_wrong_saved_value_differs_and_is_named(tmp_path, capsys, formula,
+                                                                                       closed_form):
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0], extra=_formula_cell(formula, closed_form)))
+    out = capsys.readouterr().out
+    assert status == 0 and "2 agree" in out, out
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0], extra=_formula_cell(formula, closed_form + 0.01)))
+    out = capsys.readouterr().out
+    assert status == 1 and "DIFFERS: Torques!C1" in out, out
+    assert f"value: saved {closed_form + 0.01:.10g}, recomputed {closed_form:.10g}" in out
+
+
+def test_each_distinct_call_is_computed_once(tmp_path):
+    formula = "=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)+NW_SERIES_TORQUE(A1,lin_curve,lin_speed)"
+    found = audit.audit_bytes(wf.torque_workbook([50.0], extra=_formula_cell(formula, 0.0)))
+    assert (found.calls, found.distinct_calls) == (3, 1)  # B1 and C1 twice, all with the same arguments
+    parameters = ["NW_SERIES_TORQUE: current", "NW_SERIES_TORQUE: mag_curve", "NW_SERIES_TORQUE: mag_speed"]
+    assert [p for p, _, _ in found.cells[1].inputs] == parameters * 2
+
+
+def _reference_with(sheet_xml: str, old: bytes, new: bytes) -> bytes:
+    def change(body: bytes) -> bytes:
+        assert body.count(old) == 1, old
+        return body.replace(old, new)
+
+    return wf.replace_member(REFERENCE.read_bytes(), sheet_xml, change)
+
+
+RESIDUAL = b"NW_SERIES_RESIDUAL_SPEED(hoist_v_supply,hoist_r_motor,hoist_mag_curve,hoist_mag_speed,hoist_brush_drop)"
+
+
+def test_reference_round_wrapped_call_with_a_changed_saved_value_differs_and_is_named(tmp_path, capsys):
+    # Measured in issue 11: this formula with a changed saved value used to pass as "not recomputed" (exit 0).
+    wrapped = _reference_with("xl/worksheets/sheet2.xml", b"<f>" + RESIDUAL + b"</f><v>26600.0</v>",
+                              b"<f>ROUND(" + RESIDUAL + b",4)</f><v>26600.0</v>")
+    status, _ = run_audit(tmp_path, wrapped)
+    assert status == 0, capsys.readouterr().out
+    changed = _reference_with("xl/worksheets/sheet2.xml", b"<f>" + RESIDUAL + b"</f><v>26600.0</v>",
+                              b"<f>ROUND(" + RESIDUAL + b",4)</f><v>26601.0</v>")
+    status, _ = run_audit(tmp_path, changed)
+    out = capsys.readouterr().out
+    assert status == 1 and "DIFFERS: Hoist!F20" in out and out.count("DIFFERS") == 1, out
+
+
+def test_reference_expression_argument_is_recomputed(tmp_path, capsys):
+    # Measured in issue 11: conveyor_v_supply*1 as an argument used to leave the cell "not recomputed".
+    data = _reference_with("xl/worksheets/sheet5.xml", b"<f>NW_SHUNT_KPHI(conveyor_v_supply,",
+                           b"<f>NW_SHUNT_KPHI(conveyor_v_supply*1,")
+    status, _ = run_audit(tmp_path, data)
+    out = capsys.readouterr().out
+    assert status == 0 and "50 agree" in out, out
+
+
+def test_reference_result_replaced_by_a_typed_number_is_named(tmp_path, capsys):
+    # Measured in issue 11: the typed-over cell used to leave the count silently (49 of 50 "agree").
+    data = _reference_with("xl/worksheets/sheet2.xml", b'<c r="F20" s="5"><f>' + RESIDUAL + b"</f><v>26600.0</v>",
+                           b'<c r="F20" s="5"><v>26600.0</v>')
+    status, _ = run_audit(tmp_path, data)
+    out = capsys.readouterr().out
+    assert status == 1, out
+    assert "49 agree, 0 differ, 1 typed over" in out
+    assert "TYPED OVER: Hoist!F20: F20 holds the typed value 26600 where the workbook was built with a formula " \
+           "calling NW_SERIES_RESIDUAL_SPEED" in out
+
+
+def test_a_workbook_without_nw_cells_is_not_a_pass(tmp_path, capsys):
+    out_file = io.BytesIO()
+    book = xlsxwriter.Workbook(out_file, {"in_memory": True})
+    sheet = book.add_worksheet("Plain")
+    sheet.write_number("A1", 2.0)
+    sheet.write_formula("B1", "=A1*2", None, 4.0)
+    book.close()
+    status, report = run_audit(tmp_path, out_file.getvalue())
+    out = capsys.readouterr().out
+    assert status == 4, out
+    assert "NO NW_ CELLS" in out and "exit status 4: the workbook has no NW_ cells: nothing was checked" in out
+    assert "no cells that call NW_ functions: nothing was checked" in report.read_text(encoding="utf-8")
+
+
+def test_a_file_saved_without_the_functions_is_named_as_such(tmp_path, capsys):
+    def foreign(book, sheet):
+        sheet.write_formula("C1", "=NW_SERIES_TORQUE(A2,lin_curve,lin_speed)", None, "#NAME?")
+
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0, 80.0], saved=lambda i: "#NAME?" if i == 80.0 else
+                                                        wf.torque_closed_form(i), extra=foreign))
+    out = capsys.readouterr().out
+    assert status == 3, out
+    assert ("saved by a spreadsheet program without the NW_ functions: 2 cells hold #NAME? instead of their "
+            "results (Torques!C1, Torques!B2)") in out
+    assert "DIFFERS" not in out and "NOT VERIFIED: Torques!B2: saved as #NAME?" in out
+
+
+def test_a_zip_without_workbook_xml_is_refused_with_a_sentence(tmp_path, capsys):
+    data = wf.torque_workbook([50.0])
+    source, out = zipfile.ZipFile(io.BytesIO(data)), io.BytesIO()
+    with zipfile.ZipFile(out, "w") as target:
+        for info in source.infolist():
+            if info.filename != "xl/workbook.xml":
+                target.writestr(info, source.read(info))
+    _exit_2(tmp_path, capsys, out.getvalue(), "not a workbook: the zip holds no spreadsheet (it has no xl/workbook.xml)")
+
+
+def test_a_workbook_missing_a_sheet_part_is_refused_with_a_sentence(tmp_path, capsys):
+    data = wf.torque_workbook([50.0])
+    source, out = zipfile.ZipFile(io.BytesIO(data)), io.BytesIO()
+    with zipfile.ZipFile(out, "w") as target:
+        for info in source.infolist():
+            if info.filename != "xl/worksheets/sheet1.xml":
+                target.writestr(info, source.read(info))
+    _exit_2(tmp_path, capsys, out.getvalue(), "the workbook is incomplete: the zip does not hold the sheet 'Torques'")
+
+
+def test_constants_that_feed_nw_calls_are_listed_through_other_formulas(tmp_path):
+    def through(book, sheet):
+        sheet.write_number("E1", 40.0)
+        sheet.write_formula("E2", "=E1+10", None, 50.0)
+        sheet.write_formula("C1", "=NW_SERIES_TORQUE(E2,lin_curve,lin_speed)", None, wf.torque_closed_form(50.0))
+
+    found = audit.audit_bytes(wf.torque_workbook([25.0], extra=through))
+    constants = {(s, c): (n, v) for s, c, n, v in found.constants}
+    assert constants[("Torques", "E1")] == ("", 40) and ("Torques", "E2") not in constants
+    assert constants[("Torques", "A1")] == ("", 25)
+    assert constants[("Curve data", "D1")] == ("lin_speed", 1000)
+    assert all(("Curve data", f"{col}{row}") in constants for col in "AB" for row in range(2, 6))
+    assert ("Curve data", "A1") not in constants  # the header row is not read by any call
+
+
+def test_the_report_reads_like_an_audit(tmp_path, capsys):
+    old_umask = os.umask(0o022)
+    try:
+        status, report = run_audit(tmp_path, _tamper(REFERENCE.read_bytes(), "xl/worksheets/sheet2.xml", "G10"))
+    finally:
+        os.umask(old_umask)
+    out = capsys.readouterr().out
+    assert status == 1
+    page = report.read_text(encoding="utf-8")
+    assert stat.S_IMODE(report.stat().st_mode) == 0o644  # as any file the user writes, not 0600
+    assert page.index("<h2>Summary</h2>") < page.index("SHA-256") < page.index("<h2>Cells")
+    assert '<a href="#cell-1">Hoist!F9:J13</a>' in page and '<tr id="cell-1" class="differs">' in page
+    assert "@page { size: A4 landscape" in page and "max-width: 1240px" in page
+    assert page.count("<td class=off>") == 2  # the tampered entry, in the saved and the recomputed table
+    # The terminal shows the differing entry under its column's label, not the header row.
+    header = [c for c in audit.audit_bytes(REFERENCE.read_bytes()).cells if c.address == "F9:J13"][0].saved[0]
+    assert f"row 2, {header[1]}: saved" in out and f"saved {header[0]}" not in out
+
+
+def test_the_default_report_goes_beside_the_workbook(tmp_path, capsys, monkeypatch):
+    folder = tmp_path / "received"
+    folder.mkdir()
+    (folder / "book.xlsx").write_bytes(wf.torque_workbook([50.0]))
+    monkeypatch.chdir(tmp_path)
+    assert main(["audit", str(folder / "book.xlsx")]) == 0
+    assert (folder / "book-audit.html").is_file() and not (tmp_path / "book-audit.html").exists()
+
+
+@pytest.mark.parametrize("where", ["repository", "elsewhere"])
+def test_pypis_formulas_is_loaded_even_from_the_repository_root(tmp_path, where):
+    # From the repository's root, sys.path[0] is the root, whose formulas/ folder is Notchwise's core.
+    root = Path(__file__).resolve().parents[1]
+    code = ("import sys; from notchwise.workbooks.audit_recompute import spreadsheet_formulas as f; m = f(); "
+            "import formulas, notchwise.formulas; print(m.__file__); print(formulas is m, hasattr(m, 'Parser'), "
+            "notchwise.formulas.__name__)")
+    run = subprocess.run([sys.executable, "-c", code], cwd=root if where == "repository" else tmp_path,
+                         capture_output=True, text=True, check=True)
+    location, checks = run.stdout.splitlines()
+    assert Path(location).parent != root / "formulas"
+    assert checks == "True True notchwise.formulas"

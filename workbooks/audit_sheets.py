@@ -11,9 +11,11 @@ from __future__ import annotations
 import dataclasses
 import io
 import warnings
+import zipfile
 
 import openpyxl
 from defusedxml import DefusedXmlException
+from defusedxml.ElementTree import fromstring
 from openpyxl.utils.cell import range_boundaries
 
 from . import manifest
@@ -105,6 +107,10 @@ def _load_book(data: bytes) -> Book:
                         sheet.max_row = max(sheet.max_row, cell["row"])
                         sheet.max_col = max(sheet.max_col, cell["column"])
             sheets[ws.title] = sheet
+        missing = [title for title in _declared_sheets(data) if title not in book.sheetnames]
+        if missing:
+            raise UnreadableWorkbook(f"the workbook is incomplete: the zip does not hold the sheet {missing[0]!r} "
+                                     "that xl/workbook.xml names")
         names = {
             "": {k.lower(): v for k, v in book.defined_names.items()},
             **{ws.title: {k.lower(): v for k, v in ws.defined_names.items()} for ws in book.worksheets},
@@ -116,6 +122,13 @@ def _load_book(data: bytes) -> Book:
     finally:
         book.close()
     return Book(sheets, names)
+
+
+def _declared_sheets(data: bytes) -> list:
+    """The sheet names that xl/workbook.xml declares (openpyxl skips those whose part is missing)."""
+    with zipfile.ZipFile(io.BytesIO(data)) as archive:
+        root = fromstring(archive.read("xl/workbook.xml"))
+    return [element.get("name") for element in root.iter() if element.tag.rsplit("}", 1)[-1] == "sheet"]
 
 
 def _parsed_cells(book, ws, data_only: bool):

@@ -27,6 +27,7 @@ from xlsxwriter.utility import xl_cell_to_rowcol, xl_range_abs, xl_rowcol_to_cel
 
 from notchwise.addin import CAUTION, udfs
 from notchwise.addin.cells import call_with_cells
+from notchwise.workbooks import manifest
 from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START
 
 __all__ = [
@@ -735,6 +736,14 @@ class _Writer:
             for c, value in enumerate(values)
         ]
 
+    def manifest_sheet(self):
+        """The hidden, machine-readable list of computed results that ``notchwise audit`` checks."""
+        ws = self.book.add_worksheet(manifest.SHEET)
+        ws.hide()
+        ws.write_row(0, 0, manifest.HEADER)
+        for row, cell in enumerate(self.computed, start=1):
+            ws.write_row(row, 0, (cell.sheet, cell.where, cell.function))
+
     def cautions_sheet(self):
         ws = self.book.add_worksheet("Cautions")
         ws.fit_to_pages(1, 0)
@@ -752,6 +761,7 @@ def build(path=DEFAULT_PATH, sheets=SHEETS) -> list:
         writer.case_sheet(sheet)
     writer.computed_sheet()
     writer.cautions_sheet()
+    writer.manifest_sheet()
     writer.book.close()
     return writer.computed
 
