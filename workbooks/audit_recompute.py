@@ -80,12 +80,12 @@ def spreadsheet_formulas():
 
 @functools.cache
 def _library():
-    """(the formulas package, its function table) with every NW_ function plugged in."""
+    """(the formulas package, its function table with every NW_ function plugged in, its error-value type)."""
     library = spreadsheet_formulas()
     functions = library.get_functions()
     for name in udfs.__all__:
         functions[name] = functools.partial(_plugged, name)
-    return library, functions
+    return library, functions, importlib.import_module(f"{library.__name__}.tokens.operand").XlError
 
 
 _EVALUATING = contextvars.ContextVar("evaluating")
@@ -99,9 +99,11 @@ def _plugged(name, *arguments):
 # -- the formula's text ---------------------------------------------------------------------
 
 
-def _tokens(formula: str) -> list:
+@functools.lru_cache(maxsize=4096)
+def _tokens(formula: str) -> tuple:
+    """The formula's tokens (kept for the texts that recur: defined names, sweep formulas, calls_nw then prepare)."""
     try:
-        return Tokenizer(formula).items
+        return tuple(Tokenizer(formula).items)
     except TokenizerError as error:
         raise NotVerifiable(f"the formula cannot be parsed ({error})") from None
 
@@ -301,7 +303,7 @@ class Recomputer:
 
     def check(self, prepared: Prepared) -> None:
         """Refuse, with the reason, a formula that uses a function the audit cannot evaluate."""
-        _, functions = _library()
+        _, functions, _ = _library()
         missing = functions.default_factory()
         for name in sorted(prepared.functions):
             if name.startswith("NW_") and name not in udfs.__all__:
@@ -315,7 +317,7 @@ class Recomputer:
 
     def evaluate(self, prepared: Prepared, sheet: str):
         """(the formula's result as cells, [(function, arguments)] of its NW_ calls, regions it reads)."""
-        library, _ = _library()
+        library, _, _ = _library()
         regions = [self.resolver.resolve(text, sheet) for text in prepared.references]
         self._seen, self._fault = [], None
         token = _EVALUATING.set(self)
@@ -401,9 +403,7 @@ def _to_library(value):
     if value is None:
         return schedula.EMPTY
     if isinstance(value, str) and value in ERRORS:
-        from formulas.tokens.operand import XlError
-
-        return XlError(value)
+        return _library()[2](value)
     return value
 
 
