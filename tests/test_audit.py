@@ -445,24 +445,25 @@ def test_a_file_saved_without_the_functions_is_named_as_such(tmp_path, capsys):
     assert "DIFFERS" not in out and "NOT VERIFIED: Torques!B2: saved as #NAME?" in out
 
 
-def test_a_zip_without_workbook_xml_is_refused_with_a_sentence(tmp_path, capsys):
-    data = wf.torque_workbook([50.0])
-    source, out = zipfile.ZipFile(io.BytesIO(data)), io.BytesIO()
+def _without(member: str) -> bytes:
+    """The small workbook with one zip member left out."""
+    source, out = zipfile.ZipFile(io.BytesIO(wf.torque_workbook([50.0]))), io.BytesIO()
     with zipfile.ZipFile(out, "w") as target:
         for info in source.infolist():
-            if info.filename != "xl/workbook.xml":
+            if info.filename != member:
                 target.writestr(info, source.read(info))
-    _exit_2(tmp_path, capsys, out.getvalue(), "not a workbook: the zip holds no spreadsheet (it has no xl/workbook.xml)")
+    return out.getvalue()
 
 
-def test_a_workbook_missing_a_sheet_part_is_refused_with_a_sentence(tmp_path, capsys):
-    data = wf.torque_workbook([50.0])
-    source, out = zipfile.ZipFile(io.BytesIO(data)), io.BytesIO()
-    with zipfile.ZipFile(out, "w") as target:
-        for info in source.infolist():
-            if info.filename != "xl/worksheets/sheet1.xml":
-                target.writestr(info, source.read(info))
-    _exit_2(tmp_path, capsys, out.getvalue(), "the workbook is incomplete: the zip does not hold the sheet 'Torques'")
+@pytest.mark.parametrize(
+    "member, words",
+    [
+        ("xl/workbook.xml", "not a workbook: the zip holds no spreadsheet (it has no xl/workbook.xml)"),
+        ("xl/worksheets/sheet1.xml", "the workbook is incomplete: the zip does not hold the sheet 'Torques'"),
+    ],
+)
+def test_a_zip_missing_a_workbook_part_is_refused_with_a_sentence(tmp_path, capsys, member, words):
+    _exit_2(tmp_path, capsys, _without(member), words)
 
 
 def test_constants_that_feed_nw_calls_are_listed_through_other_formulas(tmp_path):
