@@ -21,18 +21,15 @@ series_turns   turns     compound only: series-field turns per pole
 
 from __future__ import annotations
 
-import math
-
-from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor
 from notchwise.formulas.errors import InputError
 from notchwise.formulas.resistors import ALLOYS, cold_hot_start, rise_verdict, section_duty
-from notchwise.formulas.start_sim import simulate_start, start_history
+from notchwise.formulas.start_sim import checked_points, simulate_start, start_history
 from notchwise.formulas.worst_case import sweep_corners
 
 from .cells import (
     cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,
 )
-from .starters import MOTOR_KINDS, compound_motor_from_cells, series_curve_from_cells
+from .starters import MOTOR_KINDS, machine_from_cells
 
 __all__ = ["NW_START_SIM", "NW_START_HISTORY", "NW_SECTION_HEATING", "NW_WORST_CASE"]
 
@@ -86,12 +83,7 @@ def motor_from_cells(motor, mag_curve):
         if key not in given:
             raise _missing(key, kind)
     values = {key: number(key, raw, UNITS[key]) for key, raw in given.items() if key not in ("kind", "brush_drop")}
-    if kind == "shunt":
-        machine = ShuntMotor(values["r_motor"], values["k_phi"])
-    elif kind == "series":
-        machine = SeriesMotor(values["r_motor"], series_curve_from_cells(mag_curve, values["mag_speed"]))
-    else:
-        machine = compound_motor_from_cells(values["r_motor"], mag_curve, values["shunt_at"], values["series_turns"], values["mag_speed"])
+    machine = machine_from_cells("motor kind", kind, {**values, "mag_curve": mag_curve})
     drop = optional_number("brush_drop", given.get("brush_drop"), 0.0, "V")
     return machine, values["v_supply"], drop, values["l_circuit"], values["inertia"]
 
@@ -155,8 +147,9 @@ def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, header
 )
 def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=None, headers=None):
     """Time history of a resistor start at evenly spaced times: time [s], current [A], speed [rpm], motor torque [N·m]."""
+    count = checked_points(number("points", points))  # cheap checks before the simulation
     machine, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
-    history = start_history(result, machine, number("points", points))
+    history = start_history(result, machine, count)
     rows = zip(history.t_s, history.i_a, history.n_rpm, history.torque_nm)
     return spill(HISTORY_HEADER, rows, flag("headers", headers, True))
 
@@ -179,6 +172,7 @@ def NW_SECTION_HEATING(
     """Per section: energy per start [J], rms current [A], mean power [W], adiabatic rise [K], and peaks [A] cold and hot."""
     arguments, resistances = start_arguments(motor, sections, load_torque, switching, mag_curve)
     one_mass, masses = number_or_column("mass", mass, "kg")
+    per_hour = number("starts_per_hour", starts_per_hour, "1/h")  # cheap checks before the simulation
     both = cold_hot_start(
         sections_20c_ohm=resistances,
         alloy=option("alloy", alloy, tuple(ALLOYS)),
@@ -188,7 +182,7 @@ def NW_SECTION_HEATING(
         **arguments,
     )
     cold = both.cold
-    duty = section_duty(cold.r_section_ohm, cold.i2t_a2s, number("starts_per_hour", starts_per_hour, "1/h"), cold.t_accel_s)
+    duty = section_duty(cold.r_section_ohm, cold.i2t_a2s, per_hour, cold.t_accel_s)
     verdicts = rise_verdict(both.rise_k)
     rows = zip(range(1, cold.notches + 1), both.r_cold_ohm, both.r_hot_ohm, duty.energy_j, duty.i_rms_a, duty.power_w,
                both.rise_k, cold.i_peak_a, both.hot.i_peak_a, verdicts)
@@ -227,23 +221,46 @@ def NW_WORST_CASE(
         points=counts,
         **arguments,
     )
+    return spill(WORST_HEADER, worst_case_rows(sweep), flag("headers", headers, True))
+
+
+def worst_case_rows(sweep):
+    """The rows of NW_WORST_CASE: figures over the corners that ran, then a count of every outcome."""
     nan = float("nan")
 
     def corner(label, value, index, notch):
-        if index < 0:
-            return [label, "no corner runs: every corner stalls", nan, nan, nan, nan]
         return [label, value, sweep.v_supply_v[index], sweep.tolerance[index], sweep.temperature_c[index], notch]
 
-    rows = [
-        corner("highest peak current [A]", sweep.i_peak_a[sweep.worst_peak], sweep.worst_peak, nan),
-        corner("smallest cut-out margin [-]", _margin_cell(sweep.margin[sweep.worst_margin]), sweep.worst_margin,
-               sweep.margin_notch[sweep.worst_margin]),
-        ["corners [-]", sweep.v_supply_v.size, nan, nan, nan, nan],
-        ["corners in which a notch stalls [-]", sweep.stalls, nan, nan, nan, nan],
-    ]
-    return spill(WORST_HEADER, rows, flag("headers", headers, True))
+    rows = []
+    runaway = sweep.first("runs away")
+    if runaway >= 0:
+        rows.append(corner("RUNAWAY [-]", sweep.reason[runaway], runaway, nan))
+    if sweep.worst_peak < 0:
+        rows.append(["highest peak current [A]", "no corner ran: see the counts below", nan, nan, nan, nan])
+        rows.append(["smallest cut-out margin [-]", "no corner ran: no margin", nan, nan, nan, nan])
+    else:
+        rows.append(corner("highest peak current [A]", sweep.i_peak_a[sweep.worst_peak], sweep.worst_peak, nan))
+        rows.append(corner("smallest cut-out margin [-]", sweep.margin[sweep.worst_margin],
+                           sweep.worst_margin, sweep.margin_notch[sweep.worst_margin]))
+    rows.append(["corners [-]", sweep.v_supply_v.size, nan, nan, nan, nan])
+    for status, label in _STATUS_LABELS.items():
+        count = sweep.count(status)
+        if status == "stalls" or count:  # the other outcomes are listed where they occur
+            rows.append([f"corners {label} [-]", count, nan, nan, nan, nan])
+    for status in ("stalls", "steady below cut-out", "accelerating", "step bound", "failed"):
+        first = sweep.first(status)
+        if first >= 0:
+            rows.append(corner(f"first corner {_STATUS_LABELS[status]} [-]", sweep.reason[first], first,
+                               sweep.status_notch[first] or nan))
+    return rows
 
 
-def _margin_cell(margin: float):
-    """A stalled notch has no finite margin (the core's -inf): say so in words."""
-    return "stalls: the notch cannot reach its cut-out current" if margin == -math.inf else margin
+#: Words for each outcome of a corner other than "ran" (formulas.worst_case.STATUSES), after "corners".
+_STATUS_LABELS = {
+    "stalls": "in which a notch stalls",
+    "steady below cut-out": "that run steadily below the cut-out current",
+    "accelerating": "still accelerating at the time cap",
+    "runs away": "that run away",
+    "step bound": "stopped at the step bound",
+    "failed": "that failed",
+}

@@ -8,7 +8,7 @@ from notchwise.formulas.dc_motor import (
     CompoundMotor,
     SeriesMotor,
     ShuntMotor,
-    developed_torque_nm,
+    series_torque_nm,
     k_phi_from_rating,
     magnetization_curve,
     minimum_load,
@@ -34,7 +34,6 @@ __all__ = [
 
 GRADING_HEADER = ["notch", "R in circuit [ohm]", "section cut out [ohm]", "peak current [A]", "switching current [A]"]
 CHECK_HEADER = ["step", *GRADING_HEADER[1:], "verdict"]
-MOTOR_KINDS = ("shunt", "series", "compound")
 
 _DOC = {
     "v_supply": "Supply voltage at the starter [V]",
@@ -60,15 +59,13 @@ def series_curve_from_cells(mag_curve, mag_speed=None, optional=False):
     rows = table("mag_curve", mag_curve, ("current", "EMF"), ("A", "V"), min_rows=2, optional=optional)
     if rows is None:
         return None
-    speed = None if mag_speed is None else number("mag_speed", mag_speed, "rpm")
-    return magnetization_curve(rows[:, 0], rows[:, 1], speed)
+    return magnetization_curve(rows[:, 0], rows[:, 1], _speed(mag_speed))
 
 
 def compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns, mag_speed=None):
     """A compound motor from its cells; also used by the start-in-time cells."""
     rows = table("mag_curve", mag_curve, ("ampere-turns", "EMF"), ("A", "V"), min_rows=2)
-    speed = None if mag_speed is None else number("mag_speed", mag_speed, "rpm")
-    curve = magnetization_curve(rows[:, 0], rows[:, 1], speed, excitation_name="ampere-turns")
+    curve = magnetization_curve(rows[:, 0], rows[:, 1], _speed(mag_speed), excitation_name="ampere-turns")
     return CompoundMotor(
         number("r_motor", r_motor, "ohm"),
         curve,
@@ -77,9 +74,36 @@ def compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns, mag_sp
     )
 
 
-def _shunt_motor(r_ohm):
-    # Grading needs only flux ratios, so the constant flux may be any value.
-    return ShuntMotor(r_ohm, k_phi_v_per_rpm=1.0)
+def _speed(mag_speed):
+    """The speed of a magnetization curve from its cell, named as the cell names it; None when blank. [rpm]"""
+    return None if mag_speed is None else require_positive("mag_speed", number("mag_speed", mag_speed, "rpm"), "rpm")
+
+
+def _shunt(cells):
+    return ShuntMotor(number("r_motor", cells["r_motor"], "ohm"), optional_number("k_phi", cells.get("k_phi"), None, "V/rpm"))
+
+
+def _series(cells):
+    # Without mag_speed (grading, section checks) a blank curve is legitimate: flux proportional to current.
+    speed = cells.get("mag_speed")
+    return SeriesMotor(number("r_motor", cells["r_motor"], "ohm"),
+                       series_curve_from_cells(cells.get("mag_curve"), speed, optional=speed is None))
+
+
+def _compound(cells):
+    return compound_motor_from_cells(cells["r_motor"], cells.get("mag_curve"), cells.get("shunt_at"),
+                                     cells.get("series_turns"), cells.get("mag_speed"))
+
+
+#: Every machine kind the cells accept, and how each is built from its cells (r_motor, mag_curve, k_phi,
+#: mag_speed, shunt_at, series_turns as given). A new machine is one line here.
+MACHINES = {"shunt": _shunt, "series": _series, "compound": _compound}
+MOTOR_KINDS = tuple(MACHINES)
+
+
+def machine_from_cells(kind_name, kind, cells):
+    """The machine of ``kind`` (refused with the list of valid kinds) from a dict of its cells."""
+    return MACHINES[option(kind_name, kind, MOTOR_KINDS)](cells)
 
 
 def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers):
@@ -105,7 +129,7 @@ def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, header
 @cell_function(**_GRADING_DOCS, r_armature="Armature-circuit resistance of the motor [ohm]")
 def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC shunt or separately excited motor: one row per notch, geometric current-limit law."""
-    motor = _shunt_motor(require_positive("r_armature", r_armature, "ohm"))
+    motor = ShuntMotor(require_positive("r_armature", r_armature, "ohm"))  # grading needs no k_phi
     return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
@@ -117,7 +141,7 @@ def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_d
 )
 def NW_GRADE_SERIES(v_supply, r_motor, i_peak, i_switch, mag_curve=None, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC series motor, flux following current on its magnetization curve: one row per notch."""
-    motor = SeriesMotor(number("r_motor", r_motor, "ohm"), series_curve_from_cells(mag_curve, optional=True))
+    motor = _series({"r_motor": r_motor, "mag_curve": mag_curve})
     return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
@@ -167,13 +191,9 @@ def NW_CHECK_SECTIONS(
     headers=None,
 ):
     """Peak current per notch of a given set of starter sections, with a verdict against peak and commutation limits."""
-    chosen = option("kind", kind, MOTOR_KINDS)
-    if chosen == "shunt":
-        motor = _shunt_motor(number("r_motor", r_motor, "ohm"))
-    elif chosen == "series":
-        motor = SeriesMotor(number("r_motor", r_motor, "ohm"), series_curve_from_cells(mag_curve, optional=True))
-    else:
-        motor = compound_motor_from_cells(r_motor, mag_curve, shunt_at, series_turns)
+    motor = machine_from_cells(
+        "kind", kind, {"r_motor": r_motor, "mag_curve": mag_curve, "shunt_at": shunt_at, "series_turns": series_turns}
+    )
     result = check_sections(
         motor,
         number("v_supply", v_supply, "V"),
@@ -213,8 +233,8 @@ def NW_SERIES_SPEED(v_supply, r_circuit, current, mag_curve, mag_speed, brush_dr
 )
 def NW_SERIES_TORQUE(current, mag_curve, mag_speed):
     """Developed torque of a DC series motor at a given current, from its magnetization curve [N·m]."""
-    motor = SeriesMotor(1.0, series_curve_from_cells(mag_curve, mag_speed))
-    return each("current", current, "A", lambda i_a: float(developed_torque_nm(motor, i_a)))
+    curve = series_curve_from_cells(mag_curve, mag_speed)
+    return each("current", current, "A", lambda i_a: float(series_torque_nm(curve, i_a)))
 
 
 @cell_function(

@@ -31,6 +31,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import ClassVar
 
 import numpy as np
 from scipy.interpolate import PchipInterpolator
@@ -39,11 +40,14 @@ from scipy.optimize import brentq
 from .errors import (
     DesignError,
     InputError,
+    InputTypeError,
     as_float_array,
     quantity,
     require_non_negative,
     require_positive,
 )
+from .machines import NM_PER_V_A_PER_RPM
+from .start_dc import advance_dc_notch
 
 __all__ = [
     "NM_PER_V_A_PER_RPM",
@@ -59,13 +63,12 @@ __all__ = [
     "circuit_resistance_ohm",
     "steady_speed_rpm",
     "developed_torque_nm",
+    "series_torque_nm",
     "residual_speed_rpm",
     "MinimumLoad",
     "minimum_load",
 ]
 
-#: Torque per (V/rpm · A): T = k_phi · I · 60 / (2 pi), from P = E I = T omega. [N·m/(V·A/rpm)]
-NM_PER_V_A_PER_RPM = 60.0 / (2.0 * np.pi)
 
 
 @dataclass(frozen=True)
@@ -123,8 +126,7 @@ class MagnetizationCurve:
 
     def k_phi_at(self, excitation):
         """Back-EMF per rpm, :math:`k\\Phi = E_{mag}/n_{mag}`, at ``excitation``. [V/rpm]"""
-        if self.speed_rpm is None:
-            raise InputError("mag_speed is needed for speed or torque: the speed at which mag_curve was measured")
+        _require_speed(self, "")
         return self.emf_at(excitation) / self.speed_rpm
 
 
@@ -179,30 +181,106 @@ def magnetization_curve(
         raise InputError("mag_curve EMF is zero throughout: the machine has no flux")
     if x[0] > 0.0:
         x, e = np.concatenate(([0.0], x)), np.concatenate(([0.0], e))
-    speed = None if speed_rpm is None else require_positive("mag_speed", speed_rpm, "rpm")
+    speed = None if speed_rpm is None else require_positive("speed_rpm", speed_rpm, "rpm")
     return MagnetizationCurve(x, e, speed, excitation_name)
 
 
+class _DCMachine:
+    r"""What the three DC kinds share of the machine interface (:class:`notchwise.formulas.machines.Machine`).
+
+    Each kind provides ``k_phi(i_a)`` and ``relative_flux(i_a)``; the rest follows from
+    :math:`E = k\Phi n`, :math:`T = \frac{60}{2\pi}k\Phi I` and :math:`V' = E + IR` [1]_.
+    """
+
+    #: True where the flux does not depend on current (the closed form of a start applies).
+    flux_constant: ClassVar[bool] = False
+    #: True where the speed has no bound as the load vanishes.
+    runs_away_unloaded: ClassVar[bool] = False
+
+    def torque_nm(self, i_a):
+        """Developed torque at armature current ``i_a`` (no argument checks: see :func:`developed_torque_nm`). [N·m]"""
+        return torque_nm(self.k_phi(i_a), i_a)  # Eqs. 7.1, 7.7 of [1]
+
+    def speed_rpm(self, v_eff_v, r_circuit_ohm, i_a):
+        """Speed at which a circuit of ``r_circuit_ohm`` carries ``i_a``; ``inf`` without flux. [rpm]"""
+        k_phi = np.asarray(self.k_phi(i_a), dtype=float)
+        emf = np.asarray(v_eff_v - np.multiply(r_circuit_ohm, i_a), dtype=float)
+        with np.errstate(divide="ignore", over="ignore", invalid="ignore"):  # a vanishing flux is a runaway: inf
+            n = np.where(k_phi > 0.0, emf / np.where(k_phi > 0.0, k_phi, 1.0), np.inf)  # Eq. 7.8 of [1]
+        return n[()]
+
+    def mechanical_time_constant_s(self, r_circuit_ohm: float, inertia_kgm2: float, i_a: float) -> float:
+        r"""Mechanical time constant :math:`R J / ((60/2\pi)^2 (k\Phi)^2)` at ``i_a``. [s]"""
+        k_phi = float(self.k_phi(i_a))
+        return r_circuit_ohm * inertia_kgm2 / (NM_PER_V_A_PER_RPM**2 * k_phi**2)
+
+    def advance_notch(self, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_speed_rpm) -> None:
+        """The DC 2-state circuit over one notch (:func:`notchwise.formulas.start_dc.advance_dc_notch`)."""
+        advance_dc_notch(self, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_speed_rpm)
+
+
+def _machine_resistance(r_ohm) -> float:
+    """The motor's own circuit resistance, checked. [ohm]"""
+    return require_positive("r_motor", r_ohm, "ohm")
+
+
+def _checked_curve(curve, kind: str, optional: bool = False):
+    """``curve`` if it is a MagnetizationCurve (or None where ``optional``)."""
+    if curve is None and optional:
+        return None
+    if not isinstance(curve, MagnetizationCurve):
+        raise InputTypeError(
+            f"curve ({type(curve).__name__}) of a {kind} motor must be a magnetization curve: build it with magnetization_curve"
+        )
+    return curve
+
+
+def _require_speed(curve, kind: str) -> None:
+    """Refuse a curve without its speed where speed or torque is needed."""
+    if curve is None:
+        raise InputError(f"the {kind} motor has no magnetization curve (curve): it is needed for speed or torque")
+    if curve.speed_rpm is None:
+        owner = f"the {kind} motor's magnetization curve" if kind else "the magnetization curve"
+        raise InputError(
+            f"{owner} has no speed_rpm (the speed at which it was measured; "
+            "mag_speed in a cell): it is needed for speed or torque"
+        )
+
+
 @dataclass(frozen=True)
-class ShuntMotor:
+class ShuntMotor(_DCMachine):
     """Shunt or separately excited motor with its field held constant.
 
     Attributes
     ----------
     r_ohm : float
         Resistance of the armature circuit (armature, interpoles, brushes'
-        contact resistance). [ohm]
-    k_phi_v_per_rpm : float
-        Back-EMF per rpm at the working field. [V/rpm]
+        contact resistance), above zero. [ohm]
+    k_phi_v_per_rpm : float or None
+        Back-EMF per rpm at the working field, above zero; None where only
+        grading is asked (it needs the resistance alone). [V/rpm]
     """
 
     r_ohm: float
-    k_phi_v_per_rpm: float
+    k_phi_v_per_rpm: float | None = None
 
-    i_max_a = np.inf  #: no saturation table limits the current
+    kind: ClassVar[str] = "shunt"
+    flux_constant: ClassVar[bool] = True
+    i_max_a: ClassVar[float] = np.inf  #: no saturation table limits the current
+
+    def __post_init__(self):
+        object.__setattr__(self, "r_ohm", _machine_resistance(self.r_ohm))
+        if self.k_phi_v_per_rpm is not None:
+            object.__setattr__(self, "k_phi_v_per_rpm", require_positive("k_phi", self.k_phi_v_per_rpm, "V/rpm"))
+
+    def require_dynamics(self) -> None:
+        """Refuse speed or torque without k_phi."""
+        if self.k_phi_v_per_rpm is None:
+            raise InputError("the shunt motor has no k_phi (back-EMF per rpm at the working field): it is needed for speed or torque")
 
     def k_phi(self, i_a):
         """Back-EMF per rpm at armature current ``i_a``: constant. [V/rpm]"""
+        self.require_dynamics()
         return np.full_like(np.asarray(i_a, dtype=float), self.k_phi_v_per_rpm)[()]
 
     def relative_flux(self, i_a):
@@ -211,13 +289,13 @@ class ShuntMotor:
 
 
 @dataclass(frozen=True)
-class SeriesMotor:
+class SeriesMotor(_DCMachine):
     """Series motor: the armature current is the field current.
 
     Attributes
     ----------
     r_ohm : float
-        Resistance of armature plus series field (and interpoles). [ohm]
+        Resistance of armature plus series field (and interpoles), above zero. [ohm]
     curve : MagnetizationCurve or None
         EMF against armature current at ``curve.speed_rpm``. With None the
         flux is taken proportional to current, which is enough for grading
@@ -227,15 +305,25 @@ class SeriesMotor:
     r_ohm: float
     curve: MagnetizationCurve | None = None
 
+    kind: ClassVar[str] = "series"
+    runs_away_unloaded: ClassVar[bool] = True
+
+    def __post_init__(self):
+        object.__setattr__(self, "r_ohm", _machine_resistance(self.r_ohm))
+        _checked_curve(self.curve, self.kind, optional=True)
+
     @property
     def i_max_a(self) -> float:
         """Highest current the magnetization curve covers. [A]"""
         return np.inf if self.curve is None else self.curve.max_excitation
 
+    def require_dynamics(self) -> None:
+        """Refuse speed or torque without a curve and its speed."""
+        _require_speed(self.curve, self.kind)
+
     def k_phi(self, i_a):
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
-        if self.curve is None:
-            raise InputError("mag_curve is needed for speed or torque of a series motor")
+        self.require_dynamics()
         return self.curve.k_phi_at(i_a)
 
     def relative_flux(self, i_a):
@@ -246,7 +334,7 @@ class SeriesMotor:
 
 
 @dataclass(frozen=True)
-class CompoundMotor:
+class CompoundMotor(_DCMachine):
     """Cumulative compound motor: shunt and series fields aid each other.
 
     The shunt field is fed from the supply at constant current, so its
@@ -256,13 +344,13 @@ class CompoundMotor:
     Attributes
     ----------
     r_ohm : float
-        Resistance of armature plus series field. [ohm]
+        Resistance of armature plus series field, above zero. [ohm]
     curve : MagnetizationCurve
         EMF against field ampere-turns per pole at ``curve.speed_rpm``.
     shunt_at : float
-        Shunt-field ampere-turns per pole. [A]
+        Shunt-field ampere-turns per pole, at or above zero and below the end of the curve. [A]
     series_turns : float
-        Series-field turns per pole. [-]
+        Series-field turns per pole, above zero. [-]
     """
 
     r_ohm: float
@@ -270,10 +358,27 @@ class CompoundMotor:
     shunt_at: float
     series_turns: float
 
+    kind: ClassVar[str] = "compound"
+
+    def __post_init__(self):
+        object.__setattr__(self, "r_ohm", _machine_resistance(self.r_ohm))
+        _checked_curve(self.curve, self.kind)
+        object.__setattr__(self, "shunt_at", require_non_negative("shunt_at", self.shunt_at, "A"))
+        object.__setattr__(self, "series_turns", require_positive("series_turns", self.series_turns, "turns"))
+        if self.shunt_at >= self.curve.max_excitation:
+            raise InputError(
+                f"shunt_at ({quantity(self.shunt_at, 'A')}) must be below the end of the magnetization curve "
+                f"({quantity(self.curve.max_excitation, 'A')}): extend the curve"
+            )
+
     @property
     def i_max_a(self) -> float:
         """Highest armature current the magnetization curve covers. [A]"""
         return (self.curve.max_excitation - self.shunt_at) / self.series_turns
+
+    def require_dynamics(self) -> None:
+        """Refuse speed or torque without the curve's speed."""
+        _require_speed(self.curve, self.kind)
 
     def field_at(self, i_a):
         """Total field ampere-turns per pole, :math:`F_{sh} + N_{se} I`. [A]"""
@@ -281,6 +386,7 @@ class CompoundMotor:
 
     def k_phi(self, i_a):
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
+        self.require_dynamics()
         return self.curve.k_phi_at(self.field_at(i_a))
 
     def relative_flux(self, i_a):
@@ -407,7 +513,7 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
 
     Parameters
     ----------
-    motor : ShuntMotor, SeriesMotor or CompoundMotor
+    motor : Machine
         The machine; its ``r_ohm`` is included in the circuit.
     v_supply_v : float
         Supply voltage. [V]
@@ -434,19 +540,14 @@ def steady_speed_rpm(motor, v_supply_v: float, i_a, r_external_ohm: float = 0.0,
     """
     v = effective_supply_v(v_supply_v, brush_drop_v)
     r = circuit_resistance_ohm(motor, r_external_ohm)
-    i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
-    if np.any(i < 0.0):
-        raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
+    i = _currents(i_a)
     i_stall = v / r
     if np.any(i > i_stall):
         raise InputError(
             f"current ({quantity(float(np.max(i)), 'A')}) is above the stall current "
             f"{quantity(i_stall, 'A')} (supply less brush drop over circuit resistance)"
         )
-    k_phi = np.asarray(motor.k_phi(i), dtype=float)
-    with np.errstate(divide="ignore", over="ignore"):  # a vanishing flux means a runaway: inf is the answer
-        n = np.where(k_phi > 0.0, (v - i * r) / np.where(k_phi > 0.0, k_phi, 1.0), np.inf)  # Eq. 7.8 of [1]
-    return n[()]
+    return motor.speed_rpm(v, r, i)  # Eq. 7.8 of [1]
 
 
 def developed_torque_nm(motor, i_a):
@@ -454,7 +555,7 @@ def developed_torque_nm(motor, i_a):
 
     Parameters
     ----------
-    motor : ShuntMotor, SeriesMotor or CompoundMotor
+    motor : Machine
         The machine.
     i_a : float or array_like
         Armature current, at or above zero. [A]
@@ -464,10 +565,35 @@ def developed_torque_nm(motor, i_a):
     float or numpy.ndarray
         Developed torque :math:`T = \frac{60}{2\pi} k\Phi(I)\,I`. [N·m]
     """
+    return np.asarray(motor.torque_nm(_currents(i_a)))[()]
+
+
+def series_torque_nm(curve: MagnetizationCurve, i_a):
+    r"""Developed torque of a series motor from its magnetization curve alone.
+
+    Parameters
+    ----------
+    curve : MagnetizationCurve
+        EMF against armature current, with the speed it was measured at.
+    i_a : float or array_like
+        Armature current, at or above zero. [A]
+
+    Returns
+    -------
+    float or numpy.ndarray
+        :math:`T = \frac{60}{2\pi} \frac{E_{mag}(I)}{n_{mag}} I`; the series
+        resistance does not enter. [N·m]
+    """
+    i = _currents(i_a)
+    return np.asarray(torque_nm(_checked_curve(curve, "series").k_phi_at(i), i))[()]  # Eqs. 7.1, 7.7 of [1]
+
+
+def _currents(i_a) -> np.ndarray:
+    """Armature currents as an array of the input's shape, each at or above zero. [A]"""
     i = as_float_array("current", i_a, "A").reshape(np.shape(i_a))
     if np.any(i < 0.0):
         raise InputError(f"current ({quantity(float(np.min(i)), 'A')}) must not be negative")
-    return torque_nm(motor.k_phi(i), i)[()]
+    return i
 
 
 def residual_speed_rpm(motor, v_supply_v: float, brush_drop_v: float = 0.0) -> float:

@@ -107,8 +107,8 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
 
     Parameters
     ----------
-    motor : ShuntMotor, SeriesMotor or CompoundMotor
-        The machine; only its resistance and flux ratios enter.
+    motor : Machine
+        The machine (:mod:`notchwise.formulas.machines`); only its resistance and flux ratios enter.
     v_supply_v : float
         Supply voltage. [V]
     i_peak_a : float
@@ -138,7 +138,7 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
     i_peak = require_positive("i_peak", i_peak_a, "A")
     i_switch = require_below("i_switch", require_positive("i_switch", i_switch_a, "A"), "i_peak", i_peak, "A")
-    r_motor = require_positive("r_motor", motor.r_ohm, "ohm")
+    r_motor = motor.r_ohm  # checked when the machine was built
     if i_peak > motor.i_max_a:
         raise InputError(
             f"i_peak ({quantity(i_peak, 'A')}) lies beyond the magnetization curve, "
@@ -208,8 +208,8 @@ def peak_after_cut_a(motor, v_eff_v: float, r_before_ohm: float, r_after_ohm: fl
 
     Parameters
     ----------
-    motor : ShuntMotor, SeriesMotor or CompoundMotor
-        The machine.
+    motor : Machine
+        The machine (:mod:`notchwise.formulas.machines`).
     v_eff_v : float
         Supply less brush drop. [V]
     r_before_ohm, r_after_ohm : float
@@ -303,8 +303,8 @@ def check_sections(
 
     Parameters
     ----------
-    motor : ShuntMotor, SeriesMotor or CompoundMotor
-        The machine.
+    motor : Machine
+        The machine (:mod:`notchwise.formulas.machines`).
     v_supply_v : float
         Supply voltage. [V]
     sections_ohm : array_like
@@ -327,7 +327,7 @@ def check_sections(
     i_switch = require_positive("i_switch", i_switch_a, "A")
     i_limit = require_positive("i_limit", i_limit_a, "A")
     i_commutation = require_positive("i_commutation", i_commutation_a, "A")
-    r_motor = require_positive("r_motor", as_float("r_motor", motor.r_ohm, "ohm"), "ohm")
+    r_motor = motor.r_ohm  # checked when the machine was built
     r = notch_resistances_ohm(r_motor, sections)
     peaks = np.empty(r.size)
     peaks[0] = v_eff / r[0]

@@ -33,50 +33,73 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .dc_motor import effective_supply_v, torque_nm
+from .dc_motor import effective_supply_v
 from .errors import DesignError, InputError, as_float, quantity, require_count, require_non_negative
 from .resistors import resistance_at_c
 from .grading import checked_sections, notch_resistances_ohm
+from .start_notch import OUTCOMES, StartIncomplete
 from .start_sim import load_torque, simulate_start
 
-__all__ = ["WorstCase", "sweep_corners", "MAX_CORNERS"]
+__all__ = ["STATUSES", "WorstCase", "sweep_corners", "MAX_CORNERS"]
 
 #: Most corners one sweep accepts; bounds the run time. [-]
 MAX_CORNERS = 20_000
 
 
+#: Status of a corner: ran, or what happened instead (the outcomes of :class:`~notchwise.formulas.start_notch.StartIncomplete`, or failed).
+STATUSES = ("ran", *OUTCOMES, "failed")
+
+
 @dataclass(frozen=True)
 class WorstCase:
-    """Every corner of a sweep, and where the worst figures occur.
+    """Every corner of a sweep with its outcome, and where the worst figures occur.
 
     Attributes
     ----------
     v_supply_v, tolerance, temperature_c : numpy.ndarray
         The corner: supply [V], resistance tolerance [-] and grid temperature [°C].
+    status : tuple of str
+        Per corner, one of :data:`STATUSES`: ``ran``, or what happened instead.
+    status_notch : numpy.ndarray
+        Notch on which a corner stopped; 0 where it ran or on the run after the last cut. [-]
+    reason : tuple of str
+        Per corner, the message of what happened (empty where it ran).
     i_peak_a : numpy.ndarray
-        Highest current of the start in each corner; NaN where a notch stalls. [A]
+        Highest current of the start in each corner; NaN where it did not run. [A]
     margin : numpy.ndarray
-        Cut-out margin of each corner (module docstring). [-]
+        Cut-out margin of each corner (module docstring); at or below zero for a
+        stall found by the criterion, NaN where the corner did not run for another reason. [-]
     margin_notch : numpy.ndarray
         Notch giving that margin. [-]
     worst_peak, worst_margin : int
-        Index of the corner with the highest peak (of those that do not
-        stall) and of the one with the smallest margin; -1 where no corner runs.
+        Index of the corner with the highest peak and of the one with the
+        smallest margin, both among the corners that ran; -1 where none ran.
     """
 
     v_supply_v: np.ndarray
     tolerance: np.ndarray
     temperature_c: np.ndarray
+    status: tuple
+    status_notch: np.ndarray
+    reason: tuple
     i_peak_a: np.ndarray
     margin: np.ndarray
     margin_notch: np.ndarray
     worst_peak: int
     worst_margin: int
 
+    def count(self, status: str) -> int:
+        """Number of corners with ``status`` (one of :data:`STATUSES`). [-]"""
+        return sum(s == status for s in self.status)
+
     @property
     def stalls(self) -> int:
         """Number of corners in which a notch stalls. [-]"""
-        return int(np.count_nonzero(self.margin <= 0.0))
+        return self.count("stalls")
+
+    def first(self, status: str) -> int:
+        """Index of the first corner with ``status``; -1 where none has it. [-]"""
+        return next((k for k, s in enumerate(self.status) if s == status), -1)
 
 
 def _axis(low: float, high: float, count: int) -> np.ndarray:
@@ -86,10 +109,9 @@ def _axis(low: float, high: float, count: int) -> np.ndarray:
 
 def _margin(motor, v_eff, r_notch, load, i_cut, n_cut=None):
     """Torque margin at cut-out, corners along axis 0 and notches along axis 1."""
-    flux = np.asarray(motor.k_phi(i_cut), dtype=float)
     if n_cut is None:
-        n_cut = (v_eff[:, None] - r_notch * i_cut) / flux  # speed at which each notch carries i_cut, Eq. 7.8 of [1]
-    t_motor = torque_nm(flux, i_cut)
+        n_cut = motor.speed_rpm(v_eff[:, None], r_notch, i_cut)  # speed at which each notch carries i_cut, Eq. 7.8 of [1]
+    t_motor = np.asarray(motor.torque_nm(i_cut), dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
         margin = np.where(t_motor > 0.0, (t_motor - load.at(n_cut)) / t_motor, -np.inf)
     return np.where(n_cut > 0.0, margin, -np.inf)
@@ -172,31 +194,46 @@ def sweep_corners(
     r_notch = np.stack([notch_resistances_ohm(motor.r_ohm, s)[:-1] for s in scaled]) if scaled.size else scaled
 
     peaks = np.full(v.size, np.nan)
+    status = ["ran"] * v.size
+    status_notch = np.zeros(v.size, dtype=int)
+    reason = [""] * v.size
     if i_cut_a is not None:
         margins = _margin(motor, v_eff, r_notch, load, as_float("cut-out current", i_cut_a, "A"))
-        runs = np.nonzero(np.min(margins, axis=1) > 0.0)[0]  # the others stall: no need to simulate them
+        least = np.min(margins, axis=1)
+        for c in np.nonzero(~(least > 0.0))[0]:  # these stall by the criterion: no need to simulate them
+            status[c], status_notch[c] = "stalls", int(np.argmin(margins[c])) + 1
+            reason[c] = f"notch {status_notch[c]} stalls: the motor at the cut-out current does not out-pull the load"
     else:
         margins = np.full(r_notch.shape, np.nan)
-        runs = np.arange(v.size)
-    for c in runs:
+    for c in (k for k in range(v.size) if status[k] == "ran"):
         try:
             result = simulate_start(motor, v[c], scaled[c], l_circuit_h, inertia_kgm2, load, i_cut_a=i_cut_a,
                                     dwell_s=dwell_s, brush_drop_v=brush_drop_v)
-        except DesignError:
-            margins[c] = np.where(np.isnan(margins[c]), -np.inf, margins[c])
+        except StartIncomplete as error:
+            status[c], status_notch[c], reason[c] = error.outcome, error.notch or 0, str(error)
+            margins[c] = -np.inf if error.outcome == "stalls" else np.nan
+            continue
+        except (DesignError, InputError) as error:  # a corner that cannot be computed is kept as failed, with why
+            status[c], reason[c] = "failed", str(error)
+            margins[c] = np.nan
             continue
         peaks[c] = max(result.i_peak_a.max(), result.i_peak_run_a)
         if i_cut_a is None:
             margins[c] = _margin(motor, v_eff[c:c + 1], r_notch[c], load, result.i_cut_a, result.n_cut_rpm[None, :])[0]
-    least = np.min(margins, axis=1)
-    running = np.isfinite(peaks)
+    ran = np.array([s == "ran" for s in status], dtype=bool)
+    with np.errstate(invalid="ignore"):
+        least = np.min(margins, axis=1) if margins.size else np.full(v.size, np.nan)
+    margin_notch = np.where(np.all(np.isnan(margins), axis=1), 0, np.argmin(np.nan_to_num(margins, nan=np.inf), axis=1) + 1) if margins.size else np.zeros(v.size, dtype=int)
     return WorstCase(
         v_supply_v=v,
         tolerance=tau,
         temperature_c=theta,
+        status=tuple(status),
+        status_notch=status_notch,
+        reason=tuple(reason),
         i_peak_a=peaks,
         margin=least,
-        margin_notch=np.argmin(margins, axis=1) + 1,
-        worst_peak=int(np.nanargmax(peaks)) if running.any() else -1,
-        worst_margin=int(np.argmin(least)),
+        margin_notch=margin_notch,
+        worst_peak=int(np.nanargmax(np.where(ran, peaks, np.nan))) if ran.any() else -1,
+        worst_margin=int(np.argmin(np.where(ran, least, np.inf))) if ran.any() else -1,
     )

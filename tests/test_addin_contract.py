@@ -21,10 +21,11 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
+from tests.conftest import COMPOUND_AMPERE_TURNS
 from tests.xlwings_standin import EXCEL_MISSING, call_like_excel, real_xlwings
 
 SERIES_CURVE = (("current A", "EMF V"), (0.0, 5.0), (50.0, 120.0), (100.0, 200.0), (200.0, 290.0), (400.0, 350.0))
-COMPOUND_CURVE = ((0.0, 0.0), (1000.0, 100.0), (3000.0, 200.0), (6000.0, 260.0), (9000.0, 290.0))
+COMPOUND_CURVE = COMPOUND_AMPERE_TURNS
 M = EXCEL_MISSING
 #: A resistance start as (time s, current A) rows: four notches between 420 A and 300 A, then 120 A running.
 START = (("time s", "current A"), (0.0, 420.0), (1.5, 300.0), (1.5, 420.0), (3.0, 300.0), (3.0, 420.0), (4.5, 300.0),

@@ -24,11 +24,12 @@ from notchwise.formulas.dc_motor import (
     torque_nm,
 )
 from notchwise.formulas.errors import DesignError, InputError, InputTypeError
+from tests.conftest import SATURATING_CURVE, SATURATING_E_V, SATURATING_I_A
 
 # Table of our own making: EMF [V] at 1000 rpm against current [A], with residual flux.
-I_TABLE = np.array([0.0, 50.0, 100.0, 200.0, 300.0, 400.0, 600.0])
-E_TABLE = np.array([4.0, 110.0, 190.0, 280.0, 320.0, 345.0, 370.0])
-CURVE = magnetization_curve(I_TABLE, E_TABLE, 1000.0)
+I_TABLE = np.array(SATURATING_I_A)
+E_TABLE = np.array(SATURATING_E_V)
+CURVE = SATURATING_CURVE  # at 1000 rpm
 HOIST = SeriesMotor(0.06, CURVE)
 
 
@@ -145,7 +146,7 @@ def test_speed_limits_are_named():
         steady_speed_rpm(HOIST, 230.0, -1.0)
     with pytest.raises(InputError, match="beyond it: extend the curve"):
         steady_speed_rpm(SeriesMotor(0.01, CURVE), 230.0, 800.0)
-    with pytest.raises(InputError, match="mag_speed is needed"):
+    with pytest.raises(InputError, match="has no speed_rpm"):
         steady_speed_rpm(SeriesMotor(0.06, magnetization_curve(I_TABLE, E_TABLE)), 230.0, 100.0)
     with pytest.raises(InputError, match="brush_drop .* must be below v_supply"):
         steady_speed_rpm(HOIST, 2.0, 1.0, 0.0, 2.0)

@@ -5,6 +5,7 @@ from __future__ import annotations
 import subprocess
 import sys
 
+import numpy as np
 import pytest
 
 from notchwise.workbooks.cli import main
@@ -28,3 +29,13 @@ def test_an_unknown_case_is_refused_by_name(capsys):
     with pytest.raises(SystemExit):
         main(["diagram", "--case", "dragline"])
     assert "invalid choice: 'dragline'" in capsys.readouterr().err
+
+
+def test_the_diagram_starts_the_hoist_from_the_workbook_s_own_inputs():
+    from notchwise.workbooks.build_reference import SHEETS
+    from notchwise.workbooks.diagram import demo_start
+
+    inputs = {item.name: item.value for sheet in SHEETS for item in sheet.inputs if hasattr(item, "value")}
+    _, data, _, result = demo_start("hoist")
+    assert data["i_cut"] == inputs["hoist_i_cut"] == 300.0  # the cut-out set on the Hoist start sheet
+    np.testing.assert_allclose(result.i_cut_a[: result.notches], 300.0, rtol=1e-6)

@@ -12,9 +12,10 @@ from hypothesis import strategies as st
 from notchwise.formulas.dc_motor import CompoundMotor, SeriesMotor, ShuntMotor, magnetization_curve
 from notchwise.formulas.errors import DesignError, InputError, InputTypeError
 from notchwise.formulas.grading import MAX_NOTCHES, check_sections, grade_uniform, peak_after_cut_a
+from tests.conftest import SATURATING_CURVE
 
 # A saturating curve of our own making (not any real machine): EMF [V] at 1000 rpm against current [A].
-CURVE = magnetization_curve([0, 50, 100, 200, 300, 400, 600], [4, 110, 190, 280, 320, 345, 370], 1000.0)
+CURVE = SATURATING_CURVE
 
 
 def shunt(r_ohm=0.05):

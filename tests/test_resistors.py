@@ -7,7 +7,6 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from notchwise.formulas.dc_motor import ShuntMotor
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.resistors import (
     ALLOYS,
@@ -20,9 +19,10 @@ from notchwise.formulas.resistors import (
     section_energy_j,
 )
 from notchwise.formulas.start_sim import simulate_start, start_history
+from tests.conftest import TEST_SECTIONS_OHM, TEST_SHUNT
 
-MOTOR = ShuntMotor(0.1, 0.4)
-SECTIONS = [1.0, 0.5, 0.25]
+MOTOR = TEST_SHUNT
+SECTIONS = list(TEST_SECTIONS_OHM)
 
 
 def _start():

@@ -5,14 +5,14 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from notchwise.formulas.dc_motor import ShuntMotor
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.resistors import ALLOYS
 from notchwise.formulas.start_sim import simulate_start
 from notchwise.formulas.worst_case import sweep_corners
+from tests.conftest import TEST_SECTIONS_OHM, TEST_SHUNT
 
-MOTOR = ShuntMotor(0.1, 0.4)
-SECTIONS = np.array([1.0, 0.5, 0.25])
+MOTOR = TEST_SHUNT
+SECTIONS = np.array(TEST_SECTIONS_OHM)
 RISING_LOAD = [[0.0, 250.0], [600.0, 450.0], [1200.0, 700.0]]  # a load stiffening with speed
 
 
@@ -72,3 +72,30 @@ def test_bad_inputs_give_messages(change, words):
     with pytest.raises((InputError, DesignError)) as error:
         sweep_corners(**arguments)
     assert words in str(error.value)
+
+
+def test_a_runaway_corner_is_kept_as_a_runaway_and_gives_no_margin():
+    # A series curve through the origin (no residual flux) against no load: every corner runs away
+    # (Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003, sec. 7.6: never run a series motor unloaded).
+    from notchwise.addin.dynamics import worst_case_rows
+    from notchwise.formulas.dc_motor import SeriesMotor, magnetization_curve
+
+    bare = SeriesMotor(0.07, magnetization_curve([0, 50, 100, 200, 400, 600], [0, 70, 125, 192, 245, 265], 600.0))
+    sweep = sweep_corners(bare, 440.0, SECTIONS, 0.01, 5.0, 0.0, points=(2, 1, 1), i_cut_a=200.0)
+    assert set(sweep.status) == {"runs away"} and sweep.stalls == 0
+    assert sweep.worst_margin == -1 and sweep.worst_peak == -1
+    assert np.all(np.isnan(sweep.margin))
+    with pytest.raises(DesignError, match="runs away"):
+        simulate_start(bare, 440.0, SECTIONS, 0.01, 5.0, 0.0, i_cut_a=200.0)
+    rows = worst_case_rows(sweep)
+    assert rows[0][0] == "RUNAWAY [-]" and "runs away" in rows[0][1]
+    assert ["smallest cut-out margin [-]", "no corner ran: no margin"] == rows[2][:2]
+    assert ["corners that run away [-]", 2] == [r[:2] for r in rows if r[0].startswith("corners that run away")][0]
+
+
+def test_every_corner_carries_its_status_and_reason():
+    sweep = sweep_corners(MOTOR, 440.0, SECTIONS, 0.01, 5.0, RISING_LOAD, -0.3, 0.1, 0.1, "AISI 304", 20.0, 300.0,
+                          (4, 3, 2), i_cut_a=170.0, brush_drop_v=2.0)
+    for status, reason, peak in zip(sweep.status, sweep.reason, sweep.i_peak_a):
+        assert (status == "ran") == np.isfinite(peak) == (reason == "")
+    assert sweep.status[sweep.worst_margin] == "ran" and sweep.margin[sweep.worst_margin] > 0.0

@@ -24,7 +24,7 @@ CURVE_SPEED = 1000.0
 
 
 def torque_closed_form(i_a: float) -> float:
-    """T = (60/2π) kΦ I with kΦ = I/1000 V/rpm (Fitzgerald et al., 6th ed., Eq. 7.x via P = EI = Tω). [N·m]"""
+    """T = (60/2π) kΦ I with kΦ = I/1000 V/rpm (Fitzgerald et al., 6th ed., Eqs. 7.1 and 7.7, P = EI = Tω). [N·m]"""
     return 60.0 / (2.0 * math.pi) * (i_a / CURVE_SPEED) * i_a
 
 

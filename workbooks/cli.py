@@ -12,11 +12,11 @@ import sys
 
 from notchwise.addin import CAUTION
 
-from . import audit, demo, diagram
+from . import audit, demo, diagram, freeze
 
 __all__ = ["main"]
 
-SUBCOMMANDS = (demo, diagram, audit)
+SUBCOMMANDS = (demo, diagram, audit, freeze)
 
 
 def main(argv=None) -> int:

@@ -7,9 +7,8 @@ from pathlib import Path
 
 from xlsxwriter.exceptions import FileCreateError
 
-from notchwise.workbooks.build_reference import SERIES_WARNING, build
-
-from notchwise.addin import CAUTION
+from notchwise.addin import CAUTION, SERIES_WARNING
+from notchwise.workbooks.build_reference import build
 
 __all__ = ["add_parser", "run", "format_table", "DEFAULT_OUT"]
 

@@ -2,14 +2,14 @@
 
 All motor data here are made up for the demonstration; they are no
 manufacturer's figures and no textbook problem. They are used by
-``notchwise demo`` and by the reference workbook, never as test references.
+``notchwise demo``, ``notchwise diagram`` and the reference workbook, never as test references.
 """
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "HOIST_START", "HOIST_PROTECTION", "DemoCase"]
+__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "HOIST_START", "CONVEYOR_START", "HOIST_PROTECTION", "STARTS", "DemoCase"]
 
 
 @dataclass(frozen=True)
@@ -122,6 +122,18 @@ HOIST_START = DemoCase(
         "corner_points": 2.0,
     },
 )
+
+#: The conveyor started in time (drawn by ``notchwise diagram``; the workbook has no conveyor start).
+CONVEYOR_START = DemoCase(
+    key="conveyor start",
+    title="Caldbeck Quarry overland conveyor: the start in time",
+    story="The six graded notches of the conveyor, started against the belt with relays set to cut out at 245 A.",
+    inputs={"i_cut": 245.0},
+)
+
+#: Each start in time: its machine case and the case holding its switching (the cut-out current). The
+#: workbook's Hoist start sheet and ``notchwise diagram`` both take their inputs from these pairs.
+STARTS = {HOIST.key: (HOIST, HOIST_START), CONVEYOR.key: (CONVEYOR, CONVEYOR_START)}
 
 HOIST_PROTECTION = DemoCase(
     key="hoist protection",

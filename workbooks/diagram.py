@@ -13,27 +13,29 @@ import numpy as np
 from notchwise.formulas.dc_motor import SeriesMotor, ShuntMotor, k_phi_from_rating, magnetization_curve, steady_speed_rpm
 from notchwise.formulas.grading import grade_uniform, notch_resistances_ohm
 from notchwise.formulas.start_sim import simulate_start, start_history
-from notchwise.workbooks.demo_cases import CONVEYOR, HOIST
-
 from notchwise.addin import CAUTION
+from notchwise.workbooks.demo_cases import HOIST, STARTS
 
 __all__ = ["add_parser", "run", "demo_start"]
-
-CASES = {HOIST.key: HOIST, CONVEYOR.key: CONVEYOR}
 
 
 def add_parser(subparsers) -> None:
     """Register the ``diagram`` subcommand."""
     parser = subparsers.add_parser("diagram", help="draw the starting diagram of a demo case as a PNG")
-    parser.add_argument("--case", choices=sorted(CASES), default=HOIST.key, help="demo case (default: hoist)")
+    parser.add_argument("--case", choices=sorted(STARTS), default=HOIST.key, help="demo case (default: hoist)")
     parser.add_argument("--output", help="PNG file to write (default: start-<case>.png)")
     parser.add_argument("--points", type=int, default=2000, help="samples of the time history (default 2000)")
     parser.set_defaults(run=run)
 
 
-def demo_start(case):
-    """Motor, supply, brush drop, graded sections and the simulated start of a demo case."""
-    data = case.inputs
+def demo_start(key):
+    """Case, its inputs, motor and simulated start of the demo start ``key`` of ``STARTS``.
+
+    The inputs are those of the case's description, the same the reference workbook uses: the cut-out
+    current is the one set there, not the graded switching current.
+    """
+    case, switching = STARTS[key]
+    data = {**case.inputs, **switching.inputs}
     if case is HOIST:
         rows = np.array(data["mag_curve"])
         motor = SeriesMotor(data["r_motor"], magnetization_curve(rows[:, 0], rows[:, 1], data["mag_speed"]))
@@ -45,9 +47,9 @@ def demo_start(case):
     )
     result = simulate_start(
         motor, data["v_supply"], grading.r_section_ohm, data["l_circuit"], data["inertia"], data["load_torque"],
-        i_cut_a=grading.i_switch_a[0], brush_drop_v=data["brush_drop"],
+        i_cut_a=data["i_cut"], brush_drop_v=data["brush_drop"],
     )
-    return motor, grading, result
+    return case, data, motor, result
 
 
 def _characteristics(motor, data, r_notch, i_top):
@@ -67,13 +69,11 @@ def run(arguments) -> int:
     matplotlib.use("Agg")
     from matplotlib import pyplot as plt
 
-    case = CASES[arguments.case]
-    data = case.inputs
-    motor, grading, result = demo_start(case)
+    case, data, motor, result = demo_start(arguments.case)
     history = start_history(result, motor, arguments.points)
     cuts = result.t_start_s + result.dwell_s
     r_notch = notch_resistances_ohm(motor.r_ohm, result.r_section_ohm)
-    i_cut = grading.i_switch_a[0]
+    i_cut = data["i_cut"]
 
     figure, (timeline, plane) = plt.subplots(1, 2, figsize=(13.5, 5.6), gridspec_kw={"width_ratios": [1.5, 1]})
     colours = plt.get_cmap("viridis")(np.linspace(0.05, 0.85, r_notch.size))

@@ -1,0 +1,83 @@
+"""Load torque against speed, referred to the motor shaft, for the start in time.
+
+A constant torque or a table of (speed, torque) rows, interpolated linearly
+and held at its end values. The load is a reaction at standstill (module
+docstring of :mod:`notchwise.formulas.start_sim`); an overhauling (driving)
+load is outside this model and is refused.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+
+from .errors import InputError, as_float_array, quantity
+
+__all__ = ["LoadTorque", "load_torque"]
+
+
+@dataclass(frozen=True)
+class LoadTorque:
+    """Load torque against speed, referred to the motor shaft.
+
+    Attributes
+    ----------
+    speed_rpm : numpy.ndarray
+        Speeds of the table, strictly rising, from 0 rpm or above; one entry
+        for a constant load. [rpm]
+    torque_nm : numpy.ndarray
+        Load torque at each speed, at or above zero. Between points it is
+        interpolated linearly; beyond the ends it is held at the end value. [N·m]
+    """
+
+    speed_rpm: np.ndarray
+    torque_nm: np.ndarray
+
+    @property
+    def constant(self) -> bool:
+        """True when the load torque does not depend on speed."""
+        return bool(np.all(self.torque_nm == self.torque_nm[0]))
+
+    def at(self, n_rpm):
+        """Load torque at speed ``n_rpm``. [N·m]"""
+        return np.interp(n_rpm, self.speed_rpm, self.torque_nm)
+
+    @property
+    def at_rest_nm(self) -> float:
+        """Load torque at 0 rpm: the reaction the motor must exceed to break away. [N·m]"""
+        return float(self.at(0.0))
+
+
+def load_torque(torque) -> LoadTorque:
+    """A validated load torque from a number or a table of (speed, torque) rows.
+
+    Parameters
+    ----------
+    torque : float or array_like
+        A constant torque [N·m], or rows of (speed [rpm], torque [N·m]) with
+        speeds strictly rising from 0 rpm or above.
+
+    Returns
+    -------
+    LoadTorque
+    """
+    rows = np.asarray(torque, dtype=object)
+    if rows.ndim == 0 or rows.size == 1:
+        value = as_float_array("load_torque", torque, "N·m")[0]
+        if value < 0.0:
+            raise InputError(f"load_torque ({quantity(value, 'N·m')}) must not be negative: an overhauling load is outside this model")
+        return LoadTorque(np.array([0.0]), np.array([value]))
+    if rows.ndim != 2 or rows.shape[1] < 2:
+        raise InputError("load_torque must be a number or two columns: speed [rpm] and torque [N·m]")
+    speed = as_float_array("load_torque speed", rows[:, 0], "rpm")
+    value = as_float_array("load_torque torque", rows[:, 1], "N·m")
+    if speed[0] < 0.0:
+        raise InputError(f"load_torque speed ({quantity(speed[0], 'rpm')}) must not be negative")
+    if np.any(np.diff(speed) <= 0.0):
+        k = int(np.argmax(np.diff(speed) <= 0.0))
+        raise InputError(f"load_torque speeds must rise strictly: row {k + 2} ({quantity(speed[k + 1], 'rpm')}) does not exceed row {k + 1}")
+    if np.any(value < 0.0):
+        k = int(np.argmax(value < 0.0))
+        raise InputError(f"load_torque row {k + 1} ({quantity(value[k], 'N·m')}) must not be negative: an overhauling load is outside this model")
+    return LoadTorque(speed, value)

@@ -1,0 +1,310 @@
+"""The cases of the reference workbook: one :class:`~notchwise.workbooks.schema.Sheet` per worked case.
+
+The figures come from :mod:`notchwise.workbooks.demo_cases`, the one description of each demo
+case, which the ``notchwise diagram`` command draws from too. Adding a case means adding a
+sheet to ``SHEETS``: no new code.
+"""
+
+from __future__ import annotations
+
+from notchwise.addin import SERIES_WARNING
+from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START, STARTS
+from notchwise.workbooks.schema import EACH, Chart, Input, Link, Literal, Part, Result, Sheet, Sweep, Table
+
+__all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS"]
+
+FUNCTION_BASIS = {
+    "grading": (
+        "Uniform current-limit grading (notchwise.formulas.grading): M. G. Say and E. O. Taylor, Direct Current "
+        "Machines, 2nd ed., Pitman, 1986, chapter on starting (from memory); A. E. Fitzgerald, C. Kingsley Jr., "
+        "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.6."
+    ),
+    "start": (
+        "Time-domain start L di/dt = V - Vb - R i - kΦ(i) n, J dω/dt = T - T_load (notchwise.formulas.start_sim), closed "
+        "form for the shunt motor, Radau otherwise: A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, Electric "
+        "Machinery, 6th ed., McGraw-Hill, 2003, sec. 7.9; E. Hairer and G. Wanner, Solving Ordinary "
+        "Differential Equations II, 2nd ed., Springer, 1996 (Radau IIA)."
+    ),
+    "heating": (
+        "Section energy, r.m.s. duty, adiabatic rise m·c·ΔT = E and R(θ) = R20(1 + α(θ - 20 °C)) "
+        "(notchwise.formulas.resistors); alloy data and the IEEE Std 32 rise limits from memory, see formulas/resistors.py."
+    ),
+    "relay": (
+        "Inverse-time elements t = m(k/(M^α - 1) + c) (notchwise.formulas.relays): IEC 60255-151:2009, Table 1; "
+        "IEEE Std C37.112-1996, Table 1; operate progress Σ dt/t(I); thermal element IEC 60255-149."
+    ),
+    "machine": (
+        "DC machine laws E = kΦn, T = (60/2π)kΦI, V = E + IR + Vb (notchwise.formulas.dc_motor): A. E. Fitzgerald, "
+        "C. Kingsley Jr., S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, ch. 7, Eqs. 7.1-7.8; "
+        "curve between points: F. N. Fritsch and R. E. Carlson, SIAM J. Numer. Anal., vol. 17, no. 2, 1980."
+    ),
+}
+
+
+
+def _hoist_sheet() -> Sheet:
+    h = HOIST.inputs
+    motor = ("hoist_v_supply", "hoist_r_motor")
+    curve = ("hoist_mag_curve", "hoist_mag_speed")
+    return Sheet(
+        name="Hoist",
+        title=HOIST.title,
+        story=HOIST.story,
+        inputs=(
+            Input("hoist_v_supply", "Supply voltage at the starter", h["v_supply"], "V"),
+            Input("hoist_r_motor", "Motor circuit resistance (armature + series field)", h["r_motor"], "ohm"),
+            Input("hoist_i_peak", "Peak current on every notch", h["i_peak"], "A"),
+            Input("hoist_i_switch", "Least switching current", h["i_switch"], "A"),
+            Input("hoist_brush_drop", "Total brush drop", h["brush_drop"], "V"),
+            Input("hoist_mag_speed", "Speed at which the curve was measured", h["mag_speed"], "rpm"),
+            Input("hoist_n_max", "Highest safe speed of hoist and gearing", h["n_max"], "rpm"),
+            Table("hoist_mag_curve", "Magnetization curve at mag_speed", ("current [A]", "EMF [V]"), h["mag_curve"]),
+        ),
+        results=(
+            Result(
+                "Graded starter sections (fewest notches that keep the switching current)",
+                "NW_GRADE_SERIES",
+                (*motor, "hoist_i_peak", "hoist_i_switch", "hoist_mag_curve", None, "hoist_brush_drop"),
+                FUNCTION_BASIS["grading"],
+                parts=(Part("hoist_sections", 2, 2),),
+            ),
+            Result(
+                "Least load that holds the motor at or below n_max",
+                "NW_SERIES_MIN_LOAD",
+                (*motor, "hoist_n_max", *curve, "hoist_brush_drop"),
+                FUNCTION_BASIS["machine"],
+                labels=("least current [A]", "developed torque [N·m]"),
+            ),
+            Result(
+                "Speed unloaded on residual flux alone (runaway warning figure)",
+                "NW_SERIES_RESIDUAL_SPEED",
+                (*motor, *curve, "hoist_brush_drop"),
+                FUNCTION_BASIS["machine"],
+                unit="rpm",
+            ),
+        ),
+        sweeps=(
+            Sweep(
+                "Speed-current characteristic on full voltage",
+                Table("hoist_sweep_current", "Armature current", ("current [A]",), [[i] for i in h["sweep_current"]]),
+                (
+                    ("speed [rpm]", "NW_SERIES_SPEED", (*motor, EACH, *curve, "hoist_brush_drop"),
+                     FUNCTION_BASIS["machine"]),
+                    ("developed torque [N·m]", "NW_SERIES_TORQUE", (EACH, *curve), FUNCTION_BASIS["machine"]),
+                ),
+                Chart("Hoist motor: speed against armature current", x=0, y=(1,)),
+            ),
+        ),
+        notes=(SERIES_WARNING,),
+    )
+
+
+def _conveyor_sheet() -> Sheet:
+    c = CONVEYOR.inputs
+    return Sheet(
+        name="Conveyor",
+        title=CONVEYOR.title,
+        story=CONVEYOR.story,
+        inputs=(
+            Input("conveyor_v_supply", "Supply voltage at the starter", c["v_supply"], "V"),
+            Input("conveyor_r_armature", "Armature-circuit resistance", c["r_armature"], "ohm"),
+            Input("conveyor_i_peak", "Peak current on every notch", c["i_peak"], "A"),
+            Input("conveyor_i_switch", "Least switching current", c["i_switch"], "A"),
+            Input("conveyor_notches", "Number of notches", c["notches"], "-"),
+            Input("conveyor_brush_drop", "Total brush drop", c["brush_drop"], "V"),
+            Input("conveyor_i_rated", "Rated armature current", c["i_rated"], "A"),
+            Input("conveyor_n_rated", "Rated speed", c["n_rated"], "rpm"),
+        ),
+        results=(
+            Result(
+                "Graded starter sections on the given number of notches",
+                "NW_GRADE_SHUNT",
+                ("conveyor_v_supply", "conveyor_r_armature", "conveyor_i_peak", "conveyor_i_switch",
+                 "conveyor_notches", "conveyor_brush_drop"),
+                FUNCTION_BASIS["grading"],
+            ),
+            Result(
+                "Back-EMF constant from the rating plate (rated voltage = supply voltage)",
+                "NW_SHUNT_KPHI",
+                ("conveyor_v_supply", "conveyor_i_rated", "conveyor_n_rated", "conveyor_r_armature",
+                 "conveyor_brush_drop"),
+                FUNCTION_BASIS["machine"],
+                unit="V/rpm",
+            ),
+        ),
+    )
+
+
+def _contractor_sheet() -> Sheet:
+    p = CONTRACTOR.inputs
+    return Sheet(
+        name="Contractor check",
+        title=CONTRACTOR.title,
+        story=CONTRACTOR.story + " Motor data and curve are those of the Hoist sheet.",
+        inputs=(
+            Table("contractor_sections", "Proposed sections, in the order cut out", ("section [ohm]",),
+                  [[r] for r in p["sections"]]),
+            Input("contractor_i_switch", "Current at which each notch is cut out", p["i_switch"], "A"),
+            Input("contractor_i_limit", "Highest peak current allowed", p["i_limit"], "A"),
+            Input("contractor_i_commutation", "Commutation limit of the motor", p["i_commutation"], "A"),
+        ),
+        results=(
+            Result(
+                "Peak current per notch and verdict against the limits",
+                "NW_CHECK_SECTIONS",
+                (Literal("series"), "hoist_v_supply", "hoist_r_motor", "contractor_sections", "contractor_i_switch",
+                 "contractor_i_limit", "contractor_i_commutation", "hoist_mag_curve", None, None,
+                 "hoist_brush_drop"),
+                FUNCTION_BASIS["grading"],
+            ),
+        ),
+        notes=(SERIES_WARNING,),
+    )
+
+
+def _hoist_start_sheet() -> Sheet:
+    h, d = (case.inputs for case in STARTS[HOIST.key])  # the pair notchwise diagram draws too
+    start = ("hoist_motor", "hoist_sections", "hoist_load_torque", "hoist_i_cut")
+    return Sheet(
+        name="Hoist start",
+        title=HOIST_START.title,
+        story=HOIST_START.story + " Motor data link to the Hoist sheet; the sections are its graded ones.",
+        inputs=(
+            Table("hoist_motor", "Motor for the start in time (name, value)", ("name", "value", "unit"), [
+                ["kind", "series", "-"],
+                ["v_supply", Link("hoist_v_supply"), "V"],
+                ["r_motor", Link("hoist_r_motor"), "ohm"],
+                ["l_circuit", h["l_circuit"], "H"],
+                ["inertia", h["inertia"], "kg·m²"],
+                ["mag_speed", Link("hoist_mag_speed"), "rpm"],
+                ["brush_drop", Link("hoist_brush_drop"), "V"],
+            ]),
+            Input("hoist_load_torque", "Hoisting torque of the rated load on the motor shaft", h["load_torque"], "N·m"),
+            Input("hoist_i_cut", "Cut-out current of the accelerating relays", d["i_cut"], "A"),
+            Input("hoist_history_points", "Points of the time history", d["history_points"], "-"),
+            Input("hoist_alloy", "Grid element alloy", d["alloy"], "-"),
+            Input("hoist_grid_mass", "Element mass per section", d["grid_mass"], "kg"),
+            Input("hoist_starts_per_hour", "Starts per hour", d["starts_per_hour"], "1/h"),
+            Input("hoist_v_low", "Supply band, low side", d["v_low"], "-"),
+            Input("hoist_v_high", "Supply band, high side", d["v_high"], "-"),
+            Input("hoist_tolerance", "Resistor tolerance", d["tolerance"], "-"),
+            Input("hoist_hot", "Hot grid temperature", d["hot"], "°C"),
+            Input("hoist_corner_points", "Points per swept quantity", d["corner_points"], "-"),
+        ),
+        results=(
+            Result("Notch by notch: times, peaks, cut-out speeds, energy", "NW_START_SIM",
+                   (*start, "hoist_mag_curve"), FUNCTION_BASIS["start"]),
+            Result(
+                "Starting diagram: the time history", "NW_START_HISTORY",
+                (*start, "hoist_history_points", "hoist_mag_curve"), FUNCTION_BASIS["start"],
+                chart=Chart("Hoist start: armature current and speed against time", x=0, y=(1,), y2=(2,),
+                            markers=False),
+                parts=(Part("hoist_start_history", 0, 1),),
+            ),
+            Result(
+                "Grid sections: energy, duty, rise, cold and hot peaks", "NW_SECTION_HEATING",
+                (*start, "hoist_alloy", "hoist_grid_mass", "hoist_starts_per_hour", None, None, "hoist_mag_curve"),
+                FUNCTION_BASIS["heating"],
+            ),
+            Result(
+                "Worst case over supply band, tolerance and grid temperature", "NW_WORST_CASE",
+                (*start, "hoist_v_low", "hoist_v_high", "hoist_tolerance", "hoist_alloy", "hoist_hot",
+                 "hoist_corner_points", None, "hoist_mag_curve"),
+                FUNCTION_BASIS["start"],
+            ),
+        ),
+        notes=(SERIES_WARNING,),
+    )
+
+
+def _hoist_protection_sheet() -> Sheet:
+    p = HOIST_PROTECTION.inputs
+    settings = ("hoist_start_history", "hoist_curve", "hoist_pickup", "hoist_multiplier")
+    return Sheet(
+        name="Hoist protection",
+        title=HOIST_PROTECTION.title,
+        story=HOIST_PROTECTION.story + " The current history is the one simulated on the Hoist start sheet.",
+        inputs=(
+            Input("hoist_curve", "Inverse-time curve of the motor relay", p["curve"], "-"),
+            Input("hoist_i_full_load", "Full-load current of the motor", p["i_full_load"], "A"),
+            Input("hoist_i_stall", "Current of a stall on notch 1 (jammed hook)", p["i_stall"], "A"),
+            Input("hoist_t_stall", "Time the motor withstands that current", p["t_stall"], "s"),
+            Input("hoist_pickup", "Pickup as set", p["pickup"], "A"),
+            Input("hoist_multiplier", "TMS as set", p["multiplier"], "-"),
+            Input("hoist_highset", "High-set pickup as set", p["highset"], "A"),
+            Input("hoist_highset_delay", "High-set delay as set", p["highset_delay"], "s"),
+            Input("hoist_k_factor", "Thermal element k factor", p["k_factor"], "-"),
+            Input("hoist_tau", "Thermal time constant of the motor", p["tau"], "s"),
+            Input("hoist_curve_up", "Curve of the feeder relay upstream", p["curve_up"], "-"),
+            Input("hoist_pickup_up", "Pickup of the feeder relay", p["pickup_up"], "A"),
+            Input("hoist_i_max", "Largest fault current at the motor", p["i_max"], "A"),
+        ),
+        results=(
+            Result(
+                "Settings proposed from the start, with their reasoning", "NW_PROPOSE_SETTINGS",
+                ("hoist_start_history", "hoist_curve", "hoist_i_full_load", "hoist_i_stall", "hoist_t_stall"),
+                FUNCTION_BASIS["relay"],
+            ),
+            Result(
+                "Ride-through of the start with the settings as set", "NW_RIDE_THROUGH",
+                (*settings, "hoist_highset", "hoist_highset_delay", "hoist_i_full_load", "hoist_k_factor",
+                 "hoist_tau"),
+                FUNCTION_BASIS["relay"],
+            ),
+            Result(
+                "Coordination with the feeder relay upstream", "NW_COORDINATE",
+                ("hoist_curve_up", "hoist_pickup_up", "hoist_curve", "hoist_pickup", "hoist_multiplier",
+                 "hoist_i_max", None, "hoist_highset", "hoist_highset_delay"),
+                FUNCTION_BASIS["relay"],
+            ),
+        ),
+        sweeps=(
+            Sweep(
+                "Operating time of the motor relay as set",
+                Table("hoist_relay_current", "Current", ("current [A]",), [[i] for i in p["sweep_current"]]),
+                (("operating time [s]", "NW_RELAY_TIME", ("hoist_curve", EACH, "hoist_pickup", "hoist_multiplier"),
+                  FUNCTION_BASIS["relay"]),),
+                Chart("Motor relay: operating time against current", x=0, y=(1,)),
+            ),
+        ),
+    )
+
+
+#: The workbook's case sheets, in order. Add a case here to add a sheet.
+SHEETS = (_hoist_sheet(), _hoist_start_sheet(), _hoist_protection_sheet(), _conveyor_sheet(), _contractor_sheet())
+
+HOW_TO_GO_LIVE = (
+    "The figures you see were computed by Notchwise when this file was built and are saved with it, so Excel "
+    "shows them without the add-in. LibreOffice recomputes spilled tables on opening (they then read #NAME?); "
+    "the Computed cells sheet lists every figure as built. To make the functions live:",
+    "1. Install Python with Notchwise (pip install notchwise, or pip install -e . in its source folder) "
+    "and the xlwings add-in (xlwings addin install).",
+    "2. Save this workbook as an Excel macro-enabled workbook (.xlsm).",
+    "3. On the xlwings ribbon tab set Interpreter to that Python, UDF Modules to notchwise.addin.udfs, "
+    "then click Import Functions.",
+    "4. Press Ctrl+Alt+F9 to recalculate every formula with the live functions.",
+    "Without the add-in, editing an input turns the cells that depend on it into #NAME?.",
+    "To check a workbook without a spreadsheet program: notchwise audit FILE --report report.html",
+)
+
+
+#: What the models include and what they leave out (module docstrings of notchwise.formulas).
+CAUTIONS = (
+    "Results must be checked by a competent person before they are used to build, set or operate equipment.",
+    "Local codes, the equipment makers' instructions and licensed engineering practice prevail over these figures.",
+    SERIES_WARNING,
+    "What the models include. The grading and section checks (Hoist, Conveyor, Contractor check) are steady "
+    "state: speed holds across a cut, the circuit inductance is left out and the flux follows the current at once. "
+    "The start in time (Hoist start) includes the circuit inductance (taken constant), the inertia of motor and "
+    "load on the motor shaft and the load torque against speed, and it integrates the i²t of every section; the "
+    "grid's heating is computed from that energy as an adiabatic rise per start, and its r.m.s. duty over the "
+    "starts per hour; the worst case repeats the start at the corners of the supply band, resistor tolerance and "
+    "grid temperature.",
+    "What the models leave out: armature reaction beyond what the magnetization curve holds, the heating of the "
+    "windings, the grid's cooling during a start and its resistance rising within a start (held at its value at "
+    "the start of the start), elasticity and backlash of ropes and gearing, an overhauling load driving the motor "
+    "backwards, and the supply's own impedance (the supply is a fixed voltage, varied only over the worst "
+    "case's band); in the worst case every section takes the same tolerance and temperature. The alloy data and the temperature-rise limits are "
+    "from memory (see SOURCES.md); check them against the grid's own rating.",
+    "The demo drives (Port of Merrow, Caldbeck Quarry) are invented; their data belong to no real machine.",
+)
