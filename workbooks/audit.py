@@ -26,7 +26,6 @@ from pathlib import Path
 
 from notchwise.addin import CAUTION, udfs
 
-from . import manifest
 from .audit_archive import LIMITS, UnreadableWorkbook, check_archive, read_file_bytes
 from .audit_compare import ABS_TOL, REL_TOL, as_block, compare, is_blank, show
 from .audit_recompute import NotVerifiable, Recomputer, Region, calls_nw, cell_name, prepare

@@ -35,7 +35,8 @@ from notchwise.addin.cells import call_with_cells
 
 from .audit_archive import LIMITS
 
-__all__ = ["NotVerifiable", "spreadsheet_formulas", "calls_nw", "prepare", "Prepared", "Region", "Recomputer"]
+__all__ = ["NotVerifiable", "spreadsheet_formulas", "calls_nw", "prepare", "Prepared", "Region", "Resolver", "Recomputer",
+           "cell_name"]
 
 #: The error values of a spreadsheet cell.
 ERRORS = frozenset(("#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A", "#GETTING_DATA"))
@@ -387,13 +388,15 @@ def _first_line(error) -> str:
 @contextlib.contextmanager
 def _quiet_library():
     """The library's scheduler logs every failing node with a traceback; the audit reports the reason itself."""
-    logger = logging.getLogger("schedula")
-    before = logger.disabled
-    logger.disabled = True
+    loggers = [logging.getLogger(name) for name in ("schedula", "schedula.utils.sol", "formulas")]
+    before = [logger.disabled for logger in loggers]
+    for logger in loggers:
+        logger.disabled = True
     try:
         yield
     finally:
-        logger.disabled = before
+        for logger, disabled in zip(loggers, before):
+            logger.disabled = disabled
 
 
 def _to_library(value):
