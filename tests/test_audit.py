@@ -521,3 +521,14 @@ def test_pypis_formulas_is_loaded_even_from_the_repository_root(tmp_path, where)
     location, checks = run.stdout.splitlines()
     assert Path(location).parent != root / "formulas"
     assert checks == "True True notchwise.formulas"
+
+
+def test_every_exit_status_is_documented_in_the_help_and_the_readme(capsys):
+    with pytest.raises(SystemExit):
+        main(["audit", "--help"])
+    shown = " ".join(capsys.readouterr().out.split())
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    paragraph = " ".join(readme[readme.index("`notchwise audit PATH"):readme.index("## The reference workbook")].split())
+    for code, meaning in audit.EXIT.items():
+        assert f"{code}: {meaning}" in shown
+        assert f"{code}: " in paragraph
