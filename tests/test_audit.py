@@ -10,6 +10,10 @@ from __future__ import annotations
 
 import hashlib
 import io
+import os
+import stat
+import subprocess
+import sys
 import zipfile
 from pathlib import Path
 
@@ -19,7 +23,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from notchwise.addin import CAUTION
-from notchwise.workbooks import audit
+from notchwise.workbooks import audit, audit_compare, audit_recompute
 from notchwise.workbooks.cli import main
 from tests import workbook_files as wf
 
@@ -39,7 +43,7 @@ def test_closed_form_results_agree_and_exit_0(tmp_path, capsys):
     status, report = run_audit(tmp_path, wf.torque_workbook([25.0, 150.0, 390.0]))
     out = capsys.readouterr().out
     assert status == 0, out
-    assert "3 cells call NW_ functions: 3 agree, 0 differ" in out
+    assert "3 cells checked: 3 agree, 0 differ" in out
     assert CAUTION in out
     page = report.read_text(encoding="utf-8")
     assert "competent person" in page and "SHA-256" in page and "1e-09" in page
@@ -80,29 +84,27 @@ def test_within_the_stated_tolerance_agrees(tmp_path, capsys):
 @pytest.mark.parametrize(
     "formula, reason",
     [
-        ("=2*NW_SERIES_TORQUE(A1,lin_curve,lin_speed)", "larger expression"),
-        ("=NW_SERIES_TORQUE(A1+1,lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(SUM(A1),lin_curve,lin_speed)", "is an expression"),
-        ("=NW_NO_SUCH_THING(A1)", "not a function of this Notchwise version"),
+        ("=NW_NO_SUCH_THING(A1)", "NW_NO_SUCH_THING is not a function of this Notchwise version"),
+        ("=IFERRORX(NW_SERIES_TORQUE(A1,lin_curve,lin_speed),0)", "uses IFERRORX, a spreadsheet function the audit cannot evaluate"),
         ("=NW_SERIES_TORQUE(A1,[2]Sheet1!A1:B4,lin_speed)", "another workbook"),
         ("=NW_SERIES_TORQUE(A1,Nowhere!A1:B4,lin_speed)", "does not have"),
         ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed,1,2)", "at most 3 arguments"),
-        ("=NW_SERIES_TORQUE({1,2},lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE((A1),lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(A1%,lin_curve,lin_speed)", "is an expression"),
-        ("=NW_SERIES_TORQUE(Torques:Torques!A1,lin_curve,lin_speed)", "spans several sheets"),
+        ("=NW_SERIES_TORQUE(Torques:Torques!A1,lin_curve,lin_speed)", "several sheets"),
         ("=NW_SERIES_TORQUE(Table1[amps],lin_curve,lin_speed)", "neither a cell reference nor a defined name"),
+        ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed", "cannot"),
     ],
 )
-def test_other_formulas_are_listed_not_recomputed_with_the_reason(tmp_path, capsys, formula, reason):
+def test_what_cannot_be_recomputed_is_named_with_its_reason_and_exits_3(tmp_path, capsys, formula, reason):
     def odd(book, sheet):
         sheet.write_formula("C1", formula, None, 1.0)
 
     status, report = run_audit(tmp_path, wf.torque_workbook([50.0], extra=odd))
-    assert status == 0
+    out = capsys.readouterr().out
+    assert status == 3, out
     cell = {c.address: c for c in audit.audit_bytes(wf.torque_workbook([50.0], extra=odd)).cells}["C1"]
-    assert cell.verdict == "not recomputed" and reason in cell.reason, cell.reason
-    assert "1 not recomputed" in capsys.readouterr().out
+    assert cell.verdict == "not verified" and reason in cell.reason, cell.reason
+    assert "1 not verified" in out and f"NOT VERIFIED: Torques!C1: {cell.reason}" in out
+    assert "exit status 3" in out and "could not be verified" in report.read_text(encoding="utf-8")
 
 
 def test_a_cell_without_a_saved_result_is_not_compared(tmp_path):
@@ -110,7 +112,7 @@ def test_a_cell_without_a_saved_result_is_not_compared(tmp_path):
         sheet.write_formula("C1", "=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)", None, "")
 
     cell = {c.address: c for c in audit.audit_bytes(wf.torque_workbook([50.0], extra=blank)).cells}["C1"]
-    assert cell.verdict == "not recomputed" and "no saved result" in cell.reason
+    assert cell.verdict == "not verified" and "no saved result" in cell.reason
 
 
 def test_report_escapes_what_the_workbook_says(tmp_path, capsys):
@@ -236,7 +238,7 @@ def test_missing_file_and_a_folder(tmp_path, capsys):
     assert main(["audit", str(tmp_path / "absent.xlsx")]) == 2
     assert main(["audit", str(tmp_path)]) == 2
     err = capsys.readouterr().err
-    assert err.count("is not a file") == 2 and "Traceback" not in err
+    assert "absent.xlsx not found" in err and err.count("is not a file") == 1 and "Traceback" not in err
 
 
 def test_macro_part_is_reported_never_run(tmp_path, capsys):
@@ -264,18 +266,19 @@ def test_progress_bar_on_large_workbooks(tmp_path, capsys, monkeypatch):
 
 
 def test_legacy_array_padding_and_scalar_fill_are_understood():
-    assert audit.compare([[1.0, 2.0], [3.0, 4.0], ["#N/A", "#N/A"]], [[1.0, 2.0], [3.0, 4.0]])[0]
-    assert not audit.compare([[1.0, 2.0], [3.0, 4.0], [5.0, "#N/A"]], [[1.0, 2.0], [3.0, 4.0]])[0]
-    assert audit.compare([["x", "x"]], [["x"]])[0]
-    assert not audit.compare([[1.0]], [[1.0], [2.0]])[0]
-    assert audit.compare([[None]], [[""]])[0]
-    assert not audit.compare([[True]], [[1.0]])[0]
+    assert audit_compare.compare([[1.0, 2.0], [3.0, 4.0], ["#N/A", "#N/A"]], [[1.0, 2.0], [3.0, 4.0]]).agrees
+    assert not audit_compare.compare([[1.0, 2.0], [3.0, 4.0], [5.0, "#N/A"]], [[1.0, 2.0], [3.0, 4.0]]).agrees
+    assert audit_compare.compare([["x", "x"]], [["x"]]).agrees
+    assert not audit_compare.compare([[1.0]], [[1.0], [2.0]]).agrees
+    assert audit_compare.compare([[None]], [[""]]).agrees
+    assert not audit_compare.compare([[True]], [[1.0]]).agrees
 
 
 def test_excel_prefixes_of_unknown_functions_are_read():
-    assert audit.calls_nw("=_xludf.NW_SERIES_TORQUE(A1,B1:C4,D1)")
-    assert audit.split_call("=_xludf.nw_series_torque(A1, B1:C4 ,D1)")[0] == "NW_SERIES_TORQUE"
-    assert not audit.calls_nw('="NW_SERIES_TORQUE(1)"')
+    assert audit_recompute.calls_nw("=_xludf.NW_SERIES_TORQUE(A1,B1:C4,D1)")
+    assert audit_recompute.prepare("=_xludf.nw_series_torque(A1, B1:C4 ,D1)").calls == [
+        ("NW_SERIES_TORQUE", ["A1", "B1:C4", "D1"])]
+    assert not audit_recompute.calls_nw('="NW_SERIES_TORQUE(1)"')
 
 
 def test_an_xlsxwriter_array_formula_over_a_larger_range(tmp_path):
@@ -307,7 +310,7 @@ def test_any_damaged_copy_of_a_workbook_is_read_or_refused_never_a_crash(data):
     except audit.UnreadableWorkbook as error:
         assert str(error) and "\n" not in str(error)
     else:
-        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)
+        assert all(c.verdict in ("agrees", "differs", "not verified") for c in found.cells)
 
 
 @settings(max_examples=60, deadline=None, suppress_health_check=[HealthCheck.too_slow])
@@ -326,4 +329,206 @@ def test_any_damaged_sheet_inside_a_sound_zip_is_read_or_refused_never_a_crash(d
     except audit.UnreadableWorkbook as error:
         assert str(error)
     else:
-        assert all(c.verdict in ("agrees", "differs", "not recomputed") for c in found.cells)
+        assert all(c.verdict in ("agrees", "differs", "not verified") for c in found.cells)
+
+
+# -- nothing unverified passes (whole formulas, typed-over results, no NW_ cells, foreign saves) ----
+
+
+def _formula_cell(formula: str, saved):
+    def add(book, sheet):
+        sheet.write_formula("C1", formula, None, saved)
+
+    return add
+
+
+@pytest.mark.parametrize(
+    "formula, closed_form",
+    [
+        # ROUND to 4 decimals: ISO/IEC 26300-2 (OpenFormula), 6.17.51 ROUND; Python's round agrees away from ties.
+        ("=ROUND(NW_SERIES_TORQUE(A1,lin_curve,lin_speed),4)", round(wf.torque_closed_form(50.0), 4)),
+        ("=NW_SERIES_TORQUE(A1*1,lin_curve,lin_speed)", wf.torque_closed_form(50.0)),
+        ("=2*NW_SERIES_TORQUE((A1+0),lin_curve,lin_speed)", 2 * wf.torque_closed_form(50.0)),
+        ("=_xlfn.IFERROR(NW_SERIES_TORQUE(SUM(A1),lin_curve,lin_speed),0)", wf.torque_closed_form(50.0)),
+        ("=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)+NW_SERIES_TORQUE(A1,lin_curve,lin_speed)",
+         2 * wf.torque_closed_form(50.0)),
+    ],
+)
+def test_whole_formulas_are_recomputed_and_a_wrong_saved_value_differs_and_is_named(tmp_path, capsys, formula,
+                                                                                       closed_form):
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0], extra=_formula_cell(formula, closed_form)))
+    out = capsys.readouterr().out
+    assert status == 0 and "2 agree" in out, out
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0], extra=_formula_cell(formula, closed_form + 0.01)))
+    out = capsys.readouterr().out
+    assert status == 1 and "DIFFERS: Torques!C1" in out, out
+    assert f"value: saved {closed_form + 0.01:.10g}, recomputed {closed_form:.10g}" in out
+
+
+def test_each_distinct_call_is_computed_once(tmp_path):
+    formula = "=NW_SERIES_TORQUE(A1,lin_curve,lin_speed)+NW_SERIES_TORQUE(A1,lin_curve,lin_speed)"
+    found = audit.audit_bytes(wf.torque_workbook([50.0], extra=_formula_cell(formula, 0.0)))
+    assert (found.calls, found.distinct_calls) == (3, 1)  # B1 and C1 twice, all with the same arguments
+    parameters = ["NW_SERIES_TORQUE: current", "NW_SERIES_TORQUE: mag_curve", "NW_SERIES_TORQUE: mag_speed"]
+    assert [p for p, _, _ in found.cells[1].inputs] == parameters * 2
+
+
+def _reference_with(sheet_xml: str, old: bytes, new: bytes) -> bytes:
+    def change(body: bytes) -> bytes:
+        assert body.count(old) == 1, old
+        return body.replace(old, new)
+
+    return wf.replace_member(REFERENCE.read_bytes(), sheet_xml, change)
+
+
+RESIDUAL = b"NW_SERIES_RESIDUAL_SPEED(hoist_v_supply,hoist_r_motor,hoist_mag_curve,hoist_mag_speed,hoist_brush_drop)"
+
+
+def test_reference_round_wrapped_call_with_a_changed_saved_value_differs_and_is_named(tmp_path, capsys):
+    # Measured in issue 11: this formula with a changed saved value used to pass as "not recomputed" (exit 0).
+    wrapped = _reference_with("xl/worksheets/sheet2.xml", b"<f>" + RESIDUAL + b"</f><v>26600.0</v>",
+                              b"<f>ROUND(" + RESIDUAL + b",4)</f><v>26600.0</v>")
+    status, _ = run_audit(tmp_path, wrapped)
+    assert status == 0, capsys.readouterr().out
+    changed = _reference_with("xl/worksheets/sheet2.xml", b"<f>" + RESIDUAL + b"</f><v>26600.0</v>",
+                              b"<f>ROUND(" + RESIDUAL + b",4)</f><v>26601.0</v>")
+    status, _ = run_audit(tmp_path, changed)
+    out = capsys.readouterr().out
+    assert status == 1 and "DIFFERS: Hoist!F20" in out and out.count("DIFFERS") == 1, out
+
+
+def test_reference_expression_argument_is_recomputed(tmp_path, capsys):
+    # Measured in issue 11: conveyor_v_supply*1 as an argument used to leave the cell "not recomputed".
+    data = _reference_with("xl/worksheets/sheet5.xml", b"<f>NW_SHUNT_KPHI(conveyor_v_supply,",
+                           b"<f>NW_SHUNT_KPHI(conveyor_v_supply*1,")
+    status, _ = run_audit(tmp_path, data)
+    out = capsys.readouterr().out
+    assert status == 0 and "50 agree" in out, out
+
+
+def test_reference_result_replaced_by_a_typed_number_is_named(tmp_path, capsys):
+    # Measured in issue 11: the typed-over cell used to leave the count silently (49 of 50 "agree").
+    data = _reference_with("xl/worksheets/sheet2.xml", b'<c r="F20" s="5"><f>' + RESIDUAL + b"</f><v>26600.0</v>",
+                           b'<c r="F20" s="5"><v>26600.0</v>')
+    status, _ = run_audit(tmp_path, data)
+    out = capsys.readouterr().out
+    assert status == 1, out
+    assert "49 agree, 0 differ, 1 typed over" in out
+    assert "TYPED OVER: Hoist!F20: F20 holds the typed value 26600 where the workbook was built with a formula " \
+           "calling NW_SERIES_RESIDUAL_SPEED" in out
+
+
+def test_a_workbook_without_nw_cells_is_not_a_pass(tmp_path, capsys):
+    out_file = io.BytesIO()
+    book = xlsxwriter.Workbook(out_file, {"in_memory": True})
+    sheet = book.add_worksheet("Plain")
+    sheet.write_number("A1", 2.0)
+    sheet.write_formula("B1", "=A1*2", None, 4.0)
+    book.close()
+    status, report = run_audit(tmp_path, out_file.getvalue())
+    out = capsys.readouterr().out
+    assert status == 4, out
+    assert "NO NW_ CELLS" in out and "exit status 4: the workbook has no NW_ cells: nothing was checked" in out
+    assert "no cells that call NW_ functions: nothing was checked" in report.read_text(encoding="utf-8")
+
+
+def test_a_file_saved_without_the_functions_is_named_as_such(tmp_path, capsys):
+    def foreign(book, sheet):
+        sheet.write_formula("C1", "=NW_SERIES_TORQUE(A2,lin_curve,lin_speed)", None, "#NAME?")
+
+    status, _ = run_audit(tmp_path, wf.torque_workbook([50.0, 80.0], saved=lambda i: "#NAME?" if i == 80.0 else
+                                                        wf.torque_closed_form(i), extra=foreign))
+    out = capsys.readouterr().out
+    assert status == 3, out
+    assert ("saved by a spreadsheet program without the NW_ functions: 2 cells hold #NAME? instead of their "
+            "results (Torques!C1, Torques!B2)") in out
+    assert "DIFFERS" not in out and "NOT VERIFIED: Torques!B2: saved as #NAME?" in out
+
+
+def _without(member: str) -> bytes:
+    """The small workbook with one zip member left out."""
+    source, out = zipfile.ZipFile(io.BytesIO(wf.torque_workbook([50.0]))), io.BytesIO()
+    with zipfile.ZipFile(out, "w") as target:
+        for info in source.infolist():
+            if info.filename != member:
+                target.writestr(info, source.read(info))
+    return out.getvalue()
+
+
+@pytest.mark.parametrize(
+    "member, words",
+    [
+        ("xl/workbook.xml", "not a workbook: the zip holds no spreadsheet (it has no xl/workbook.xml)"),
+        ("xl/worksheets/sheet1.xml", "the workbook is incomplete: the zip does not hold the sheet 'Torques'"),
+    ],
+)
+def test_a_zip_missing_a_workbook_part_is_refused_with_a_sentence(tmp_path, capsys, member, words):
+    _exit_2(tmp_path, capsys, _without(member), words)
+
+
+def test_constants_that_feed_nw_calls_are_listed_through_other_formulas(tmp_path):
+    def through(book, sheet):
+        sheet.write_number("E1", 40.0)
+        sheet.write_formula("E2", "=E1+10", None, 50.0)
+        sheet.write_formula("C1", "=NW_SERIES_TORQUE(E2,lin_curve,lin_speed)", None, wf.torque_closed_form(50.0))
+
+    found = audit.audit_bytes(wf.torque_workbook([25.0], extra=through))
+    constants = {(s, c): (n, v) for s, c, n, v in found.constants}
+    assert constants[("Torques", "E1")] == ("", 40) and ("Torques", "E2") not in constants
+    assert constants[("Torques", "A1")] == ("", 25)
+    assert constants[("Curve data", "D1")] == ("lin_speed", 1000)
+    assert all(("Curve data", f"{col}{row}") in constants for col in "AB" for row in range(2, 6))
+    assert ("Curve data", "A1") not in constants  # the header row is not read by any call
+
+
+def test_the_report_reads_like_an_audit(tmp_path, capsys):
+    old_umask = os.umask(0o022)
+    try:
+        status, report = run_audit(tmp_path, _tamper(REFERENCE.read_bytes(), "xl/worksheets/sheet2.xml", "G10"))
+    finally:
+        os.umask(old_umask)
+    out = capsys.readouterr().out
+    assert status == 1
+    page = report.read_text(encoding="utf-8")
+    assert stat.S_IMODE(report.stat().st_mode) == 0o644  # as any file the user writes, not 0600
+    assert page.index("<h2>Summary</h2>") < page.index("SHA-256") < page.index("<h2>Cells")
+    assert '<a href="#cell-1">Hoist!F9:J13</a>' in page and '<tr id="cell-1" class="differs">' in page
+    assert "@page { size: A4 landscape" in page and "max-width: 1240px" in page
+    assert page.count("<td class=off>") == 2  # the tampered entry, in the saved and the recomputed table
+    # The terminal shows the differing entry under its column's label, not the header row.
+    header = [c for c in audit.audit_bytes(REFERENCE.read_bytes()).cells if c.address == "F9:J13"][0].saved[0]
+    assert f"row 2, {header[1]}: saved" in out and f"saved {header[0]}" not in out
+
+
+def test_the_default_report_goes_beside_the_workbook(tmp_path, capsys, monkeypatch):
+    folder = tmp_path / "received"
+    folder.mkdir()
+    (folder / "book.xlsx").write_bytes(wf.torque_workbook([50.0]))
+    monkeypatch.chdir(tmp_path)
+    assert main(["audit", str(folder / "book.xlsx")]) == 0
+    assert (folder / "book-audit.html").is_file() and not (tmp_path / "book-audit.html").exists()
+
+
+@pytest.mark.parametrize("where", ["repository", "elsewhere"])
+def test_pypis_formulas_is_loaded_even_from_the_repository_root(tmp_path, where):
+    # From the repository's root, sys.path[0] is the root, whose formulas/ folder is Notchwise's core.
+    root = Path(__file__).resolve().parents[1]
+    code = ("import sys; from notchwise.workbooks.audit_recompute import spreadsheet_formulas as f; m = f(); "
+            "import formulas, notchwise.formulas; print(m.__file__); print(formulas is m, hasattr(m, 'Parser'), "
+            "notchwise.formulas.__name__)")
+    run = subprocess.run([sys.executable, "-c", code], cwd=root if where == "repository" else tmp_path,
+                         capture_output=True, text=True, check=True)
+    location, checks = run.stdout.splitlines()
+    assert Path(location).parent != root / "formulas"
+    assert checks == "True True notchwise.formulas"
+
+
+def test_every_exit_status_is_documented_in_the_help_and_the_readme(capsys):
+    with pytest.raises(SystemExit):
+        main(["audit", "--help"])
+    shown = " ".join(capsys.readouterr().out.split())
+    readme = (Path(__file__).resolve().parents[1] / "README.md").read_text(encoding="utf-8")
+    paragraph = " ".join(readme[readme.index("`notchwise audit PATH"):readme.index("## The reference workbook")].split())
+    for code, meaning in audit.EXIT.items():
+        assert f"{code}: {meaning}" in shown
+        assert f"{code}: " in paragraph

@@ -4,7 +4,7 @@ import openpyxl
 import pytest
 
 from notchwise.addin import CAUTION
-from notchwise.workbooks.audit import calls_nw
+from notchwise.workbooks.audit_recompute import calls_nw
 from notchwise.workbooks.cli import main
 from notchwise.workbooks.freeze import FIRST_SHEET
 from tests.test_reference_workbook import REFERENCE, _contents
@@ -51,7 +51,7 @@ def test_a_file_that_is_not_a_workbook_is_one_line_and_exit_2(tmp_path, capsys, 
 
 def test_a_missing_file_and_an_overwrite_are_refused(tmp_path, capsys):
     assert main(["freeze", str(tmp_path / "absent.xlsx"), str(tmp_path / "out.xlsx")]) == 2
-    assert "not a file" in capsys.readouterr().err
+    assert "absent.xlsx not found" in capsys.readouterr().err
     target = tmp_path / "same.xlsx"
     target.write_bytes(REFERENCE.read_bytes())
     assert main(["freeze", str(target), str(target)]) == 2

@@ -22,7 +22,7 @@ import openpyxl
 import pytest
 
 from notchwise.addin import CAUTION
-from notchwise.workbooks.audit import calls_nw
+from notchwise.workbooks.audit_recompute import calls_nw
 from notchwise.workbooks.cli import main
 from notchwise.workbooks.build_reference import CALC_ID, SHEETS, build
 

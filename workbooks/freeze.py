@@ -26,7 +26,8 @@ from openpyxl.utils.cell import range_boundaries
 from openpyxl.worksheet.formula import ArrayFormula
 
 from notchwise.addin import CAUTION
-from notchwise.workbooks.audit import UnreadableWorkbook, calls_nw, check_archive, read_file_bytes
+from notchwise.workbooks.audit_archive import UnreadableWorkbook, check_archive, read_file_bytes
+from notchwise.workbooks.audit_recompute import calls_nw
 
 __all__ = ["add_parser", "run", "freeze_bytes", "FIRST_SHEET"]
 

@@ -15,6 +15,7 @@ from xlsxwriter.utility import xl_cell_to_rowcol, xl_range_abs, xl_rowcol_to_cel
 
 from notchwise.addin import CAUTION, SERIES_WARNING, udfs
 from notchwise.addin.cells import call_with_cells
+from notchwise.workbooks import manifest
 from notchwise.workbooks.schema import EACH, Chart, Computed, Input, Link, Literal, Result, Sheet, Sweep
 
 __all__ = ["BUILT", "CALC_ID", "write_workbook"]
@@ -308,6 +309,14 @@ class _Writer:
             for c, value in enumerate(values)
         ]
 
+    def manifest_sheet(self):
+        """The hidden, machine-readable list of computed results that ``notchwise audit`` checks."""
+        ws = self.book.add_worksheet(manifest.SHEET)
+        ws.hide()
+        ws.write_row(0, 0, manifest.HEADER)
+        for row, cell in enumerate(self.computed, start=1):
+            ws.write_row(row, 0, (cell.sheet, cell.where, cell.function))
+
     def cautions_sheet(self, cautions):
         ws = self.book.add_worksheet("Cautions")
         ws.fit_to_pages(1, 0)
@@ -326,5 +335,6 @@ def write_workbook(path, sheets, how_to_go_live, cautions) -> list:
         writer.case_sheet(sheet)
     writer.computed_sheet()
     writer.cautions_sheet(cautions)
+    writer.manifest_sheet()
     writer.book.close()
     return writer.computed
