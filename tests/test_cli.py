@@ -2,8 +2,15 @@
 
 from __future__ import annotations
 
+import argparse
+import importlib
+import subprocess
+import sys
+
+import pytest
+
 from notchwise.addin import CAUTION
-from notchwise.workbooks.cli import main
+from notchwise.workbooks.cli import SUBCOMMANDS, main
 
 
 def test_demo_prints_the_graded_tables_and_the_caution(capsys, tmp_path, monkeypatch):
@@ -12,3 +19,50 @@ def test_demo_prints_the_graded_tables_and_the_caution(capsys, tmp_path, monkeyp
     out = capsys.readouterr().out
     assert "NW_GRADE_SERIES" in out and "NW_GRADE_SHUNT" in out and "Error" not in out
     assert CAUTION in out
+
+
+def test_version_prints_the_installed_version(capsys):
+    from importlib import metadata
+
+    with pytest.raises(SystemExit) as stop:
+        main(["--version"])
+    assert stop.value.code == 0
+    assert capsys.readouterr().out.strip() == f"notchwise {metadata.version('notchwise')}"
+
+
+def test_help_has_no_restructuredtext_markup_and_carries_the_caution(capsys):
+    with pytest.raises(SystemExit):
+        main(["--help"])
+    out = capsys.readouterr().out
+    assert "``" not in out and ":mod:" not in out
+    assert " ".join(CAUTION.split()) in " ".join(out.split())
+
+
+def test_help_imports_none_of_the_heavy_libraries():
+    # checked by what is loaded, not by timing: `notchwise --help` must not wait for scipy, matplotlib, openpyxl
+    code = (
+        "import sys\n"
+        "from notchwise.workbooks.cli import SUBCOMMANDS, main\n"
+        "try:\n    main(['--help'])\nexcept SystemExit:\n    pass\n"
+        "print(sorted(m for m in ('scipy', 'matplotlib', 'openpyxl', 'xlwings', 'xlsxwriter') if m in sys.modules),"
+        " file=sys.stderr)\n"
+    )
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert done.stderr.strip() == "[]"
+
+
+@pytest.mark.parametrize("name", sorted(SUBCOMMANDS))
+def test_each_subcommand_summary_is_the_one_its_module_registers(name):
+    module, summary = SUBCOMMANDS[name]
+    parser = argparse.ArgumentParser()
+    subparsers = parser.add_subparsers()
+    importlib.import_module(module).add_parser(subparsers)
+    registered = {action.dest: action.help for action in subparsers._choices_actions}
+    assert registered == {name: summary}
+
+
+def test_a_chosen_subcommand_gets_its_own_arguments(capsys):
+    with pytest.raises(SystemExit) as stop:
+        main(["freeze"])
+    assert stop.value.code == 2
+    assert "required: path, out" in capsys.readouterr().err

@@ -21,7 +21,7 @@ __all__ = ["add_parser", "run", "demo_start"]
 
 def add_parser(subparsers) -> None:
     """Register the ``diagram`` subcommand."""
-    parser = subparsers.add_parser("diagram", help="draw the starting diagram of a demo case as a PNG")
+    parser = subparsers.add_parser("diagram", help="draw the starting diagram or the coordination diagram of a demo case as a PNG")
     parser.add_argument("--case", choices=sorted(STARTS), default=HOIST.key, help="demo case (default: hoist)")
     parser.add_argument("--output", help="PNG file to write (default: start-<case>.png)")
     parser.add_argument("--points", type=int, default=2000, help="samples of the time history (default 2000)")
