@@ -66,3 +66,38 @@ def test_a_chosen_subcommand_gets_its_own_arguments(capsys):
         main(["freeze"])
     assert stop.value.code == 2
     assert "required: path, out" in capsys.readouterr().err
+
+
+def test_demo_output_fits_100_columns_with_units_and_progress_on_stderr(capsys, tmp_path, monkeypatch):
+    from notchwise.workbooks.demo import WIDTH
+
+    monkeypatch.chdir(tmp_path)
+    assert main(["demo"]) == 0
+    captured = capsys.readouterr()
+    lines = captured.out.splitlines()
+    assert WIDTH == 100 and max(len(line) for line in lines) <= WIDTH
+    assert "26,600 rpm" in captured.out  # a single figure carries its unit, in significant figures
+    assert "notchwise demo: computing Hoist start" in captured.err  # progress on stderr, stdout keeps the results
+    # the whole start's figures stand under headings of their own, not under the notches' ones
+    at = lines.index("whole start:")
+    heading = " ".join(" ".join(lines[at + 1: at + 6]).split())
+    assert "acceleration time [s]" in heading and "final speed [rpm]" in heading and "dwell" not in heading
+
+
+def test_format_table_wraps_headings_and_moves_long_text_under_its_row():
+    from notchwise.workbooks.demo import format_table
+
+    rows = [["figure", "value", "unit", "basis"], ["pickup", 235.7, "A", "word " * 40], ["caution", float("nan"), "", "x"]]
+    text = format_table(rows, width=60)
+    assert max(len(line) for line in text.splitlines()) <= 60
+    assert "basis: word word" in text and "235.7" in text
+
+
+def test_build_reference_says_what_it_wrote_and_where(tmp_path, capsys):
+    from notchwise.workbooks.build_reference import main as build_main
+
+    path = tmp_path / "ref.xlsx"
+    assert build_main([str(path)]) == 0
+    out = capsys.readouterr().out
+    assert f"Wrote the Notchwise reference workbook to {path.resolve()}" in out and CAUTION in out
+    assert path.is_file()

@@ -8,13 +8,30 @@ themselves are in :mod:`notchwise.workbooks.cases`; :mod:`notchwise.workbooks.wr
 
 from __future__ import annotations
 
+import math
 from dataclasses import dataclass, field
 
 __all__ = [
-    "EACH", "Input", "Table", "Link", "Part", "Literal", "Result", "Series", "Chart", "Sweep", "Sheet", "Computed",
+    "SIGNIFICANT", "decimals", "EACH", "Input", "Table", "Link", "Part", "Literal", "Result", "Series", "Chart", "Sweep", "Sheet", "Computed",
 ]
 
 EACH = object()  # in a sweep's arguments: the input cell of the row
+
+#: Significant figures a figure is shown with, in the workbook and on the terminal (cells keep every digit).
+SIGNIFICANT = 4
+
+
+def decimals(value: float) -> int | None:
+    """Decimals that show ``value`` to SIGNIFICANT figures; None where scientific notation reads better.
+
+    26600 -> 0 (26,600), 0.1676 -> 4, 420.0 -> 1.
+    """
+    if value == 0:
+        return 0
+    magnitude = math.floor(math.log10(abs(value)))
+    if magnitude < -3 or magnitude >= 9:
+        return None
+    return max(0, SIGNIFICANT - 1 - magnitude)
 
 
 @dataclass(frozen=True)
@@ -180,3 +197,5 @@ class Computed:
     basis: str
     title: str
     in_sweep: bool = False
+    unit: str = ""  # of a single value
+    labels: tuple = ()  # head a table result that has no header row

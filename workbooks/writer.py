@@ -19,7 +19,7 @@ from xlsxwriter.utility import xl_cell_to_rowcol, xl_range_abs, xl_rowcol_to_cel
 from notchwise.addin import CAUTION, SERIES_WARNING, udfs
 from notchwise.addin.cells import call_with_cells
 from notchwise.workbooks.palette import GREY, INK, MIST, MIST_EDGE, QUANTITY_COLOURS, RED, SAND, SAND_EDGE
-from notchwise.workbooks.schema import EACH, Chart, Computed, Input, Link, Literal, Result, Sheet, Sweep
+from notchwise.workbooks.schema import EACH, SIGNIFICANT, Chart, Computed, Input, Link, Literal, Result, Sheet, Sweep, decimals
 
 __all__ = ["BUILT", "CALC_ID", "write_workbook", "drawn_charts", "number_format", "DrawnChart"]
 
@@ -30,8 +30,6 @@ BUILT = dt.datetime(2026, 1, 5, 9, 0, 0)
 #: later versions (from memory), so those show the saved figures until the add-in is live.
 CALC_ID = 191029
 
-#: Significant figures shown of a computed or typed number (the saved value keeps every digit).
-SIGNIFICANT = 4
 #: Units of counted quantities: a whole number of these is shown without decimals.
 COUNTED_UNITS = ("", "-", "1/h", "turns", "notch")
 
@@ -45,13 +43,12 @@ def number_format(value: float, unit: str = "") -> str:
     """
     if float(value).is_integer() and unit in COUNTED_UNITS:
         return "#,##0"
-    if value == 0 or not math.isfinite(value):
+    if not math.isfinite(value):
         return "General"
-    magnitude = math.floor(math.log10(abs(value)))
-    if magnitude < -3 or magnitude >= 9:
+    places = decimals(value)
+    if places is None:
         return "0." + "0" * (SIGNIFICANT - 1) + "E+00"
-    decimals = max(0, SIGNIFICANT - 1 - magnitude)
-    return "#,##0" + ("." + "0" * decimals if decimals else "")
+    return "#,##0" + ("." + "0" * places if places else "")
 
 
 def _unit_of(label) -> str:
@@ -316,7 +313,7 @@ class _Writer:
             self._chart(ws, sheet.name, result.chart, names, first, row + len(value) - 1, col,
                         (row, col + len(value[0]) + 1))
         self.computed.append(Computed(sheet.name, where, result.function, formula, inputs, value, result.basis,
-                                      result.title))
+                                      result.title, unit=result.unit, labels=result.labels))
         return row + (len(value) - 1 if isinstance(value, list) else 0)
 
     def _sweep(self, ws, sheet, sweep: Sweep, row, col):
