@@ -87,7 +87,6 @@ class _Writer:
             "story": {"italic": True, "font_color": GREY, "text_wrap": False},
             "band": {"bold": True, "font_color": "#FFFFFF", "bg_color": INK},
             "caution": {"bold": True, "font_color": RED},
-            "wrapped caution": {"bold": True, "font_color": RED, "text_wrap": True, "valign": "top"},
             "label": {"font_color": INK},
             "input": {"bg_color": SAND, "border": 1, "border_color": SAND_EDGE},
             "head": {"bold": True, "font_color": INK, "bottom": 1, "bottom_color": MIST_EDGE},
@@ -95,10 +94,9 @@ class _Writer:
             "plain": {},
             "unit": {"italic": True, "font_color": GREY},
             "name": {"font_color": GREY, "font_size": 9},
-            "wrap": {"text_wrap": True, "valign": "top"},
         }
         self.fmt = {style: self.book.add_format(props) for style, props in self.styles.items()}
-        self._numbers = {}  # (style, number format) -> format
+        self._numbers = {}  # (style, number format or "wrapped") -> format
         self.values: dict[str, object] = {}  # defined name -> value as the cells hold it
         self.computed: list[Computed] = []
         self.blocks = {}  # Result/Sweep title or Table name -> (sheet, first body row, first column, body rows)
@@ -133,6 +131,13 @@ class _Writer:
         formula = f"={function}({','.join(p[0] for p in parts)})"
         result = call_with_cells(getattr(udfs, function), [p[1] for p in parts])
         return formula, result, "; ".join(p[2] for p in parts)
+
+    def _wrapped(self, style):
+        """The format of ``style`` with its text wrapped at the column's width."""
+        key = (style, "wrapped")
+        if key not in self._numbers:
+            self._numbers[key] = self.book.add_format({**self.styles[style], "text_wrap": True, "valign": "top"})
+        return self._numbers[key]
 
     def _cell_format(self, style, value, unit):
         return self.fmt[style] if isinstance(value, str) else self._number(style, value, unit)
@@ -181,36 +186,37 @@ class _Writer:
     # -- sheets ----------------------------------------------------------------------------
     def start_sheet(self, sheets, how_to_go_live):
         ws = self.book.add_worksheet("Start here")
+        wrapped = self._wrapped
         ws.fit_to_pages(1, 0)
-        ws.set_column(0, 0, 110, self.fmt["wrap"])
+        ws.set_column(0, 0, 110, wrapped("plain"))
         ws.write(0, 0, "Notchwise reference workbook: DC motor starters, worked cases", self.fmt["title"])
-        ws.write(1, 0, CAUTION, self.fmt["wrapped caution"])
-        ws.write(2, 0, SERIES_WARNING, self.fmt["wrapped caution"])
+        ws.write(1, 0, CAUTION, wrapped("caution"))
+        ws.write(2, 0, SERIES_WARNING, wrapped("caution"))
         row = 4
-        ws.write(row, 0, "Making the functions live", self.fmt["band"])
+        ws.write(row, 0, "Making the functions live", wrapped("band"))
         for line in how_to_go_live:
             row += 1
-            ws.write(row, 0, line, self.fmt["wrap"])
+            ws.write(row, 0, line, wrapped("plain"))
         row += 2
-        ws.write(row, 0, "How the sheets read", self.fmt["band"])
+        ws.write(row, 0, "How the sheets read", wrapped("band"))
         ws.write(row + 1, 0, "Input: a named cell you may change (the defined name is shown beside it)",
-                 self.fmt["input"])
+                 wrapped("input"))
         ws.write(row + 2, 0, "Result: a formula calling an NW_ function; a table spills from its first cell",
-                 self.fmt["result"])
+                 wrapped("result"))
         ws.write(row + 3, 0, "Units stand beside every value, or in the header row of a table; figures show "
-                 f"{SIGNIFICANT} significant figures, the cells keep every digit.", self.fmt["unit"])
+                 f"{SIGNIFICANT} significant figures, the cells keep every digit.", wrapped("unit"))
         row += 5
-        ws.write(row, 0, "Sheets", self.fmt["band"])
+        ws.write(row, 0, "Sheets", wrapped("band"))
         for sheet in sheets:
             row += 1
-            ws.write(row, 0, f"{sheet.name}: {sheet.title}", self.fmt["wrap"])
+            ws.write(row, 0, f"{sheet.name}: {sheet.title}", wrapped("plain"))
         for name, what in (
             ("Computed cells", "the manifest: every computed cell with its function, inputs, result as built and "
              "published basis"),
             ("Cautions", "what these figures are not, and who must check them"),
         ):
             row += 1
-            ws.write(row, 0, f"{name}: {what}", self.fmt["wrap"])
+            ws.write(row, 0, f"{name}: {what}", wrapped("plain"))
         ws.activate()
 
     def case_sheet(self, sheet: Sheet):
@@ -457,10 +463,10 @@ class _Writer:
     def cautions_sheet(self, cautions):
         ws = self.book.add_worksheet("Cautions")
         ws.fit_to_pages(1, 0)
-        ws.set_column(0, 0, 110, self.fmt["wrap"])
+        ws.set_column(0, 0, 110)
         ws.write(0, 0, "Cautions", self.fmt["title"])
         for r, line in enumerate(cautions, start=2):
-            ws.write(r, 0, line, self.fmt["wrapped caution"] if r < 5 else self.fmt["wrap"])
+            ws.write(r, 0, line, self._wrapped("caution" if r < 5 else "plain"))
 
 
 def _write(path, sheets, how_to_go_live, cautions, progress=None) -> _Writer:
