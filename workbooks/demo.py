@@ -116,19 +116,15 @@ def format_table(rows, width=WIDTH, labels=(), unit="") -> str:
     return "\n".join(lines)
 
 
-def _say(sheet, title):
-    print(f"notchwise demo: computing {sheet}: {title}", file=sys.stderr, flush=True)
-
-
 def run(arguments) -> int:
     """Write the workbook and print each case's results, the sweeps counted, and the caution."""
     from xlsxwriter.exceptions import FileCreateError
 
-    from notchwise.workbooks.build_reference import build
+    from notchwise.workbooks.build_reference import build, say_progress
 
     out = Path(arguments.out)
     try:
-        computed = build(out, progress=_say)
+        computed = build(out, progress=say_progress("notchwise demo"))
     except (OSError, FileCreateError) as error:
         print(f"notchwise demo: cannot write {out}: {error}", file=sys.stderr)
         return 2

@@ -236,8 +236,9 @@ def coordination_chart(progress=None):
 
 def _draw_coordination(plt, arguments):
     """The hoist's time-current coordination diagram, drawn from the workbook chart's own cells: a figure."""
-    _say("computing the workbook's cells behind the coordination chart ...")
-    drawn = coordination_chart(progress=lambda sheet, title: None)
+    from notchwise.workbooks.build_reference import say_progress
+
+    drawn = coordination_chart(progress=say_progress("notchwise diagram"))
     spec = drawn.spec
     _say("drawing ...")
     figure, axes = plt.subplots(figsize=(11, 7.6))
