@@ -24,6 +24,8 @@ __all__ = ["add_parser", "run", "demo_start", "KINDS", "output_path", "peak_labe
 #: What ``--kind`` draws.
 KINDS = ("start", "coordination")
 DEFAULT_POINTS = 2000
+#: Fewer samples than this draw visibly coarse lines, and the title says so.
+COARSE_BELOW = 200
 #: Styles of the workbook's series (:class:`notchwise.workbooks.schema.Series`) in matplotlib's terms.
 LINE_STYLES = {"line": {"ls": "-", "lw": 2.0}, "dash": {"ls": "--", "lw": 1.6}, "points": {"ls": "none", "marker": "o", "ms": 7}}
 
@@ -173,9 +175,10 @@ def _draw_start(plt, arguments):
     handles = [*timeline.get_lines(), *timeline.collections, *speed_axis.get_lines()]
     timeline.legend(handles, [h.get_label() for h in handles], loc="upper center", bbox_to_anchor=(0.5, -0.13),
                     ncol=3, fontsize=8, frameon=False)
-    timeline.set_title(
-        f"Current and speed in time: {result.notches} notches, acceleration {result.t_accel_s:.2f} s", fontsize=10
-    )
+    title = f"Current and speed in time: {result.notches} notches, acceleration {result.t_accel_s:.2f} s"
+    if arguments.points < COARSE_BELOW:
+        title += f"\n{arguments.points} samples drawn: the lines are coarse; the labelled peaks are the simulated ones"
+    timeline.set_title(title, fontsize=10)
 
     i_top = min(1.3 * data["i_peak"], motor.i_max_a)
     colours = plt.get_cmap("viridis")(np.linspace(0.05, 0.85, r_notch.size))
