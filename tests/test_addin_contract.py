@@ -230,6 +230,7 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_LOWERING_SPEED", 2, 10.0, "the series field does not build up at 10 N·m"),
         ("NW_LOWERING_SPEED", 3, "regenerative", "mode regenerative does not apply to lowering of a series motor"),
         ("NW_LOWERING_CHECK", 4, -5.0, "n_max (-5 rpm) must be above zero"),
+        ("NW_LOWERING_SPEED", 0, ROTOR_MOTOR, "mode dynamic: dynamic braking of a wound-rotor motor is by DC injection"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
@@ -239,6 +240,18 @@ def test_bad_input_message_names_the_argument_and_limit(excel, name, position, b
     result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
     text = result[0][0] if isinstance(result, list) else result
     assert text.startswith("Error: ") and words in text, text
+
+
+def test_wound_rotor_block_reaches_braking_and_lowering(excel):
+    udfs, _, conversion = excel
+    stop = call_like_excel(conversion, udfs.NW_STOP_SIM, (ROTOR_MOTOR, 0.1, "plugging", 500.0, 950.0, M, M, M, 1100.0))
+    assert stop[1][0] == "time to n_end" and stop[1][1] > 0.0, stop
+    injection = call_like_excel(conversion, udfs.NW_STOP_SIM, (ROTOR_MOTOR, 0.1, "dynamic", 500.0, 950.0, M, M, M, M))
+    assert "by DC injection into the stator, which is not modelled" in str(injection), injection
+    light = call_like_excel(conversion, udfs.NW_LOWERING_SPEED, (ROTOR_MOTOR, 0.05, 100.0, "counter-torque", M))
+    assert "too light to overhaul" in str(light), light
+    fast = call_like_excel(conversion, udfs.NW_LOWERING_CHECK, (ROTOR_MOTOR, 0.05, ((2000.0,), (4000.0,)), "regenerative", 1100.0, M, M))
+    assert fast[1][1] < fast[2][1] and fast[1][1] > 1000.0, fast
 
 
 def test_blank_optional_in_the_middle_means_its_default(excel):
