@@ -65,7 +65,7 @@ from scipy.optimize import brentq, minimize_scalar
 
 from .dc_motor import effective_supply_v, torque_nm
 from .induction_motor import MAX_SPEED_PER_SYNC
-from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
+from .errors import DesignError, InputError, choose, quantity, require_non_negative, require_positive
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
 from .start_load import LoadTorque, load_torque
 
@@ -79,7 +79,6 @@ __all__ = [
     "SHORTEST_STOP_S",
     "MAX_EVALUATIONS",
     "brake_resistance_ohm",
-    "braking_load",
     "BuildUp",
     "lowering_speed_rpm",
     "StopResult",
@@ -185,34 +184,6 @@ def brake_resistance_ohm(mode: str, v_supply_v: float, r_armature_ohm: float, e_
             f"{chosen} current to {quantity(driving / r_a, 'A')}, below i_max ({quantity(i_max, 'A')})"
         )
     return r_b
-
-
-def braking_load(torque) -> LoadTorque:
-    """A load torque against motion that may be negative (overhauling), from a number or a table.
-
-    Parameters
-    ----------
-    torque : float, array_like or LoadTorque
-        A constant [N·m], or rows of (speed [rpm], torque [N·m]) with speeds
-        strictly rising from 0 rpm; positive torque opposes motion and helps
-        the stop, negative torque drives the shaft (a lowered load). [N·m]
-
-    Returns
-    -------
-    LoadTorque
-        The table of :func:`notchwise.formulas.start_sim.load_torque`, signs kept.
-    """
-    if isinstance(torque, LoadTorque):
-        return torque
-    rows = np.asarray(torque, dtype=object)
-    if rows.ndim == 2 and rows.shape[1] >= 2:
-        values = as_float_array("load_torque torque", rows[:, 1], "N·m")
-        magnitudes = np.column_stack([rows[:, 0], np.abs(values)])
-    else:
-        values = as_float_array("load_torque", torque, "N·m")
-        magnitudes = np.abs(values) if values.size == 1 else rows  # a wrong shape: load_torque words it
-    checked = load_torque(magnitudes)  # its checks, on the magnitudes
-    return LoadTorque(checked.speed_rpm, np.copysign(checked.torque_nm, values))
 
 
 @dataclass(frozen=True)
@@ -650,7 +621,7 @@ def simulate_stop(
         Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
     load : float, array_like or LoadTorque
         Load torque against motion: positive helps the stop, negative
-        overhauls (see :func:`braking_load`). [N·m]
+        overhauls (:func:`notchwise.formulas.start_load.load_torque`, signed). [N·m]
     n_start_rpm : float
         Speed at which braking begins, above zero. [rpm]
     n_end_rpm : float, optional
@@ -693,7 +664,7 @@ def simulate_stop(
     n_end = 0.0 if n_end_rpm is None else require_non_negative("n_end", n_end_rpm, "rpm")
     if n_end >= n_start:
         raise InputError(f"n_end ({quantity(n_end, 'rpm')}) must be below n_start ({quantity(n_start, 'rpm')})")
-    load = braking_load(load)
+    load = load_torque(load, signed=True)
     rtol = require_positive("rtol", rtol)
     if _kind(motor) == "wound rotor":  # quasi-steady: no circuit transient, so no supply, drop or inductance
         return _plug_rotor(motor, r_brake_ohm, j, load, n_start, n_end, rtol)

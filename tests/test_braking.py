@@ -16,7 +16,6 @@ from hypothesis import strategies as st
 from scipy.integrate import solve_ivp
 
 from notchwise.formulas.braking import (
-    braking_load,
     brake_resistance_ohm,
     lowering_speed_rpm,
     overspeed_margin,
@@ -25,6 +24,7 @@ from notchwise.formulas.braking import (
 from notchwise.formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
 from notchwise.formulas.dc_motor import CompoundMotor, SeriesMotor, ShuntMotor, magnetization_curve
 from notchwise.formulas.errors import DesignError, InputError
+from notchwise.formulas.start_load import load_torque
 
 RAD = 2.0 * math.pi / 60.0
 V = 440.0
@@ -289,8 +289,9 @@ def test_bad_inputs_give_a_message(call, words):
 
 
 def test_a_signed_load_keeps_its_sign():
-    assert braking_load(-120.0).at(500.0) == pytest.approx(-120.0)
-    table = braking_load([[0.0, -50.0], [1000.0, 80.0]])
+    assert load_torque(-120.0, signed=True).at(500.0) == pytest.approx(-120.0)
+    table = load_torque([[0.0, -50.0], [1000.0, 80.0]], signed=True)
+    assert table.potential and not load_torque(50.0).potential
     assert table.at(500.0) == pytest.approx(15.0)
 
 
