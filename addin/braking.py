@@ -9,16 +9,21 @@ import math
 
 from notchwise.formulas.braking import MODES, brake_resistance_ohm, lowering_speed_rpm, overspeed_margin, simulate_stop
 from notchwise.formulas.protection import Figure
+from notchwise.formulas.resistors import ALLOYS, braking_grid_ohm, cycle_duty, resistance_at_c
+from notchwise.formulas.start_sim import simulate_start
 
 from .cells import (
-    ERROR_PREFIX, cell_function, column, flag, guard, each, name_values, number, number_or_table, option, optional_number, spill,
+    ERROR_PREFIX, cell_function, column, flag, guard, each, name_values, number, number_or_column, number_or_table, option,
+    optional_count, optional_number, spill,
 )
-from .dynamics import MOTOR_NAMES, motor_from_cells
+from .dynamics import MOTOR_NAMES, motor_from_cells, start_arguments
 from .induction import ROTOR_KIND, ROTOR_NAMES, wound_rotor_from_cells
 from .protection import caution_row, figure_table
 
-__all__ = ["NW_BRAKE_RESISTOR", "NW_STOP_SIM", "NW_LOWERING_SPEED", "NW_LOWERING_CHECK"]
+__all__ = ["NW_BRAKE_RESISTOR", "NW_STOP_SIM", "NW_LOWERING_SPEED", "NW_LOWERING_CHECK", "NW_CYCLE_HEATING"]
 
+CYCLE_HEADER = ["section", "R at ambient [ohm]", "energy per start [J]", "energy per stop [J]", "r.m.s. current [A]",
+                "mean power [W]", "rise per start and stop [K]", "verdict"]
 LOWERING_HEADER = ["lowering torque [N·m]", "lowering speed [rpm]", "margin to n_max [rpm]", "verdict"]
 
 _DOC = {
@@ -176,3 +181,47 @@ def _rotor_stop_figures(result, end, at_end, n_max) -> list:
         Figure("energy in rotor winding", result.energy_motor_j, "J", "the rotor's own share of s x P_ag"),
         Figure("energy from the supply", result.energy_supply_j, "J", "air-gap power plus stator copper loss"),
     ] + _overspeed(result, n_max)
+
+
+@cell_function(
+    tables=("motor", "sections", "load_torque", "switching", "mass", "stop_torque", "mag_curve"),
+    motor="Two columns of name/value pairs as for NW_START_SIM (a DC motor block) [-]",
+    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
+    load_torque="Load torque of the start: a number [N·m] or two columns, speed [rpm] and torque [N·m]",
+    switching="Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
+    alloy="Grid alloy [-]: " + ", ".join(ALLOYS),
+    mass="Mass of resistive element per section: one value for all, or a column [kg]",
+    starts_per_hour="Starts per hour [1/h]",
+    stop_mode="Braking connection of the stop: dynamic or plugging [-]",
+    stop_torque="Load torque against motion during the stop: a number [N·m] or speed/torque columns; negative overhauls",
+    n_stop="Speed as braking begins [rpm]",
+    stops_per_hour="Braking stops per hour [1/h]",
+    brake_from="Optional first section of the braking resistor [-]: the stop's current flows through it and every later section; blank: 1 (the whole grid)",
+    n_end="Optional speed the stop is taken to [rpm]; blank: 0 rpm",
+    ambient="Optional grid temperature at ambient [°C]; blank: 20 °C",
+    mag_curve="Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
+    headers=_DOC["headers"],
+)
+def NW_CYCLE_HEATING(motor, sections, load_torque, switching, alloy, mass, starts_per_hour, stop_mode, stop_torque, n_stop,
+                     stops_per_hour, brake_from=None, n_end=None, ambient=None, mag_curve=None, headers=None):
+    """Per section over a cycle of starts and braking stops: energy per start and per stop [J], rms current [A], mean power [W], adiabatic rise [K], verdict."""
+    arguments, r_20 = start_arguments(motor, sections, load_torque, switching, mag_curve)
+    chosen_alloy, one_mass, masses = option("alloy", alloy, tuple(ALLOYS)), *number_or_column("mass", mass, "kg")
+    r_ambient = resistance_at_c(r_20, optional_number("ambient", ambient, 20.0, "°C"), chosen_alloy)
+    first = optional_count("brake_from", brake_from) or 1
+    r_brake = braking_grid_ohm(r_ambient, first)
+    start = simulate_start(sections_ohm=r_ambient, **arguments)
+    stop = simulate_stop(
+        motor=arguments["motor"], v_supply_v=arguments["v_supply_v"], r_brake_ohm=r_brake,
+        mode=option("stop_mode", stop_mode, MODES), l_circuit_h=arguments["l_circuit_h"],
+        inertia_kgm2=arguments["inertia_kgm2"], brush_drop_v=arguments["brush_drop_v"],
+        load=number_or_table("stop_torque", stop_torque, ("speed", "torque"), ("rpm", "N·m")),
+        n_start_rpm=number("n_stop", n_stop, "rpm"), n_end_rpm=optional_number("n_end", n_end, None, "rpm"),
+    )
+    per_hour = number("starts_per_hour", starts_per_hour, "1/h"), number("stops_per_hour", stops_per_hour, "1/h")
+    duty = cycle_duty(r_ambient, start.i2t_a2s, stop.energy_brake_j / r_brake, first, *per_hour, start.t_accel_s, stop.t_stop_s, one_mass if masses is None else masses, chosen_alloy)
+    rows = [[k + 1, r_ambient[k], duty.energy_start_j[k], duty.energy_stop_j[k], duty.i_rms_a[k], duty.power_w[k],
+             duty.rise_k[k], duty.verdict[k]] for k in range(r_ambient.size)]
+    rows.append([f"the stop's current flows through sections {first} to {r_ambient.size}", *([float("nan")] * 6),
+                 "rise: one start then one stop, no cooling between"])
+    return spill(CYCLE_HEADER, rows, flag("headers", headers, True))

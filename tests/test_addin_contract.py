@@ -77,6 +77,8 @@ EXAMPLES = {
     "NW_STOP_SIM": (SHUNT_MOTOR, 0.5, "plugging", 50.0, 1000.0, M, M, M, 1100.0),
     "NW_LOWERING_SPEED": (SERIES_MOTOR, 0.5, ((100.0,), (300.0,)), "dynamic", SERIES_CURVE),
     "NW_LOWERING_CHECK": (SHUNT_MOTOR, 0.5, ((100.0,), (300.0,)), "Dynamic", 1200.0, M, M),
+    "NW_CYCLE_HEATING": (SHUNT_MOTOR, SECTIONS, 50.0, 200.0, "AISI 304", 3.0, 20.0, "plugging", 50.0, 1000.0, 20.0,
+                         2.0, M, M, M, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
@@ -230,6 +232,9 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_LOWERING_SPEED", 2, 10.0, "the series field does not build up at 10 N·m"),
         ("NW_LOWERING_SPEED", 3, "regenerative", "mode regenerative does not apply to lowering of a series motor"),
         ("NW_LOWERING_CHECK", 4, -5.0, "n_max (-5 rpm) must be above zero"),
+        ("NW_CYCLE_HEATING", 11, 9.0, "brake_from (9) must be from 1 to 3"),
+        ("NW_CYCLE_HEATING", 10, -2.0, "stops_per_hour (-2 1/h) must be above zero"),
+        ("NW_CYCLE_HEATING", 7, "regenerative", "mode regenerative does not apply to a stop of a shunt motor"),
         ("NW_LOWERING_SPEED", 0, ROTOR_MOTOR, "mode dynamic: dynamic braking of a wound-rotor motor is by DC injection"),
     ],
 )
