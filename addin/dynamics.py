@@ -59,7 +59,7 @@ WORST_HEADER = ["figure", "value", "supply [V]", "tolerance [-]", "grid temperat
 _DOC = {
     "motor": "Two columns of name/value pairs: kind, v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...",
     "sections": "Section resistances in the order they are cut out: a column or row [ohm]",
-    "load_torque": "Load torque on the motor shaft: a number [N·m] or two columns, speed [rpm] and torque [N·m]",
+    "load_torque": "Load torque on the motor shaft: a number [N·m] or two columns, speed [rpm] and torque [N·m]; a negative value makes it a gravity load that drives the shaft, even at rest",
     "switching": "Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
     "mag_curve": "Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",

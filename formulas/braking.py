@@ -59,12 +59,13 @@ from bisect import bisect_right
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.integrate import solve_ivp
+from scipy.integrate import quad, solve_ivp
 from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq, minimize_scalar
 
 from .dc_motor import effective_supply_v, torque_nm
-from .errors import DesignError, InputError, as_float_array, choose, quantity, require_non_negative, require_positive
+from .induction_motor import MAX_SPEED_PER_SYNC
+from .errors import DesignError, InputError, choose, quantity, require_non_negative, require_positive
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
 from .start_load import LoadTorque, load_torque
 
@@ -72,12 +73,12 @@ __all__ = [
     "MODES",
     "STOP_MODES",
     "LOWERING_MODES",
+    "NOT_MODELLED",
     "MAX_SPEED_RPM",
     "TIME_CAP_FACTOR",
     "SHORTEST_STOP_S",
     "MAX_EVALUATIONS",
     "brake_resistance_ohm",
-    "braking_load",
     "BuildUp",
     "lowering_speed_rpm",
     "StopResult",
@@ -85,12 +86,19 @@ __all__ = [
     "overspeed_margin",
 ]
 
-#: Every braking and lowering mode; the wound-rotor modes await that motor model.
+#: Every braking and lowering mode.
 MODES = ("dynamic", "plugging", "counter-torque", "regenerative")
 #: Modes of a stop in time, per motor kind (kinds as in the motor block).
-STOP_MODES = {"shunt": ("dynamic", "plugging"), "series": ("dynamic", "plugging"), "compound": ()}
+STOP_MODES = {"shunt": ("dynamic", "plugging"), "series": ("dynamic", "plugging"), "compound": (),
+              "wound rotor": ("plugging",)}
 #: Modes of steady lowering of an overhauling load, per motor kind.
-LOWERING_MODES = {"shunt": ("dynamic",), "series": ("dynamic",), "compound": ()}
+LOWERING_MODES = {"shunt": ("dynamic",), "series": ("dynamic",), "compound": (),
+                  "wound rotor": ("counter-torque", "regenerative")}
+#: Modes named for a kind but outside the model, with the words that say so.
+NOT_MODELLED = {
+    ("wound rotor", "dynamic"): "dynamic braking of a wound-rotor motor is by DC injection into the stator, "
+                                "which is not modelled here",
+}
 #: Highest speed accepted as input: no machine in this field turns faster. Common practice, no source. [rpm]
 MAX_SPEED_RPM = 1.0e5
 #: Points on which a magnetization curve is sampled for its steepest slope and the steady currents. [-]
@@ -115,6 +123,9 @@ def _mode_for(motor, mode, offered: dict, what: str) -> str:
     """``mode`` checked against the modes ``offered`` for the motor's kind."""
     chosen = choose("mode", mode, MODES)
     kind = _kind(motor)
+    if (kind, chosen) in NOT_MODELLED:
+        raise InputError(f"mode {chosen}: {NOT_MODELLED[kind, chosen]}; the modes for {what} of a {kind} motor are: "
+                         f"{', '.join(offered[kind])}")
     if chosen not in offered[kind]:
         modes = ", ".join(offered[kind]) or "none yet"
         raise InputError(f"mode {chosen} does not apply to {what} of a {kind} motor; its modes are: {modes}")
@@ -173,34 +184,6 @@ def brake_resistance_ohm(mode: str, v_supply_v: float, r_armature_ohm: float, e_
             f"{chosen} current to {quantity(driving / r_a, 'A')}, below i_max ({quantity(i_max, 'A')})"
         )
     return r_b
-
-
-def braking_load(torque) -> LoadTorque:
-    """A load torque against motion that may be negative (overhauling), from a number or a table.
-
-    Parameters
-    ----------
-    torque : float, array_like or LoadTorque
-        A constant [N·m], or rows of (speed [rpm], torque [N·m]) with speeds
-        strictly rising from 0 rpm; positive torque opposes motion and helps
-        the stop, negative torque drives the shaft (a lowered load). [N·m]
-
-    Returns
-    -------
-    LoadTorque
-        The table of :func:`notchwise.formulas.start_sim.load_torque`, signs kept.
-    """
-    if isinstance(torque, LoadTorque):
-        return torque
-    rows = np.asarray(torque, dtype=object)
-    if rows.ndim == 2 and rows.shape[1] >= 2:
-        values = as_float_array("load_torque torque", rows[:, 1], "N·m")
-        magnitudes = np.column_stack([rows[:, 0], np.abs(values)])
-    else:
-        values = as_float_array("load_torque", torque, "N·m")
-        magnitudes = np.abs(values) if values.size == 1 else rows  # a wrong shape: load_torque words it
-    checked = load_torque(magnitudes)  # its checks, on the magnitudes
-    return LoadTorque(checked.speed_rpm, np.copysign(checked.torque_nm, values))
 
 
 @dataclass(frozen=True)
@@ -319,18 +302,22 @@ def _series_build_up(circuit: _Circuit) -> BuildUp:
 
 def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, mode: str = "dynamic",
                        brush_drop_v: float = 0.0) -> float:
-    r"""Steady speed at which dynamic braking holds an overhauling load.
+    r"""Steady speed at which braking holds an overhauling load.
 
     Parameters
     ----------
-    motor : ShuntMotor or SeriesMotor
+    motor : ShuntMotor, SeriesMotor or WoundRotorMotor
         The machine; a series motor needs its magnetization curve with its speed. [-]
     r_external_ohm : float
-        Braking resistance outside the motor. [ohm]
+        Braking resistance outside the motor (a wound rotor: per phase, rotor side). [ohm]
     lowering_torque_nm : float
         Torque the descending load exerts on the motor shaft, above zero. [N·m]
-    mode : {"dynamic"}
-        Armature on the resistor (the wound-rotor modes come with that motor). [-]
+    mode : {"dynamic", "counter-torque", "regenerative"}
+        DC motors: armature on the resistor. Wound rotor: ``counter-torque``
+        (stator connected for hoisting, slip above 1) or ``regenerative``
+        (stator connected for lowering, above synchronous speed); see
+        :func:`_rotor_lowering_rpm`. In every mode MORE resistance gives a
+        FASTER descent. [-]
     brush_drop_v : float, optional
         Total brush drop. [V]
 
@@ -359,7 +346,9 @@ def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, 
     ----------
     See the module docstring ([1]_, [3]_ Eqs. 7.7, 7.8).
     """
-    _mode_for(motor, mode, LOWERING_MODES, "lowering")
+    chosen = _mode_for(motor, mode, LOWERING_MODES, "lowering")
+    if chosen in _ROTOR_LOWERING:
+        return _rotor_lowering_rpm(motor, r_external_ohm, lowering_torque_nm, chosen)
     vb = require_non_negative("brush_drop", brush_drop_v, "V")
     circuit = _circuit(motor, True, -vb, r_external_ohm)
     t = require_positive("lowering_torque", lowering_torque_nm, "N·m")
@@ -612,21 +601,27 @@ def simulate_stop(
 
     Parameters
     ----------
-    motor : ShuntMotor or SeriesMotor
-        The machine; a series motor needs its magnetization curve with its speed. [-]
+    motor : ShuntMotor, SeriesMotor or WoundRotorMotor
+        The machine; a series motor needs its magnetization curve with its
+        speed. A wound-rotor motor is plugged quasi-steadily with
+        ``r_brake_ohm`` in its rotor (:func:`_plug_rotor`); ``v_supply_v``,
+        ``l_circuit_h`` and ``brush_drop_v`` are not used for it (its own
+        line voltage serves). [-]
     v_supply_v : float
         Supply voltage (plugging drives the current with it). [V]
     r_brake_ohm : float
-        Braking resistance outside the motor, at or above zero. [ohm]
+        Braking resistance outside the motor, at or above zero (a wound
+        rotor: per phase, rotor side). [ohm]
     mode : {"dynamic", "plugging"}
-        The braking connection (see the module docstring). [-]
-    l_circuit_h : float
-        Inductance of the braking circuit, above zero. [H]
+        The braking connection (see the module docstring); a wound-rotor
+        motor: ``plugging`` only (DC injection is not modelled). [-]
+    l_circuit_h : float or None
+        Inductance of the braking circuit, above zero (DC motors). [H]
     inertia_kgm2 : float
         Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
     load : float, array_like or LoadTorque
         Load torque against motion: positive helps the stop, negative
-        overhauls (see :func:`braking_load`). [N·m]
+        overhauls (:func:`notchwise.formulas.start_load.load_torque`, signed). [N·m]
     n_start_rpm : float
         Speed at which braking begins, above zero. [rpm]
     n_end_rpm : float, optional
@@ -662,10 +657,6 @@ def simulate_stop(
     See the module docstring.
     """
     chosen = _mode_for(motor, mode, STOP_MODES, "a stop")
-    v_eff = effective_supply_v(v_supply_v, brush_drop_v)
-    dynamic = chosen == "dynamic"
-    circuit = _circuit(motor, dynamic, v_eff - v_supply_v if dynamic else v_eff, r_brake_ohm)
-    l_h = require_positive("l_circuit", l_circuit_h, "H")
     j = require_positive("inertia", inertia_kgm2, "kg·m²")
     n_start = require_positive("n_start", n_start_rpm, "rpm")
     if n_start > MAX_SPEED_RPM:
@@ -673,8 +664,14 @@ def simulate_stop(
     n_end = 0.0 if n_end_rpm is None else require_non_negative("n_end", n_end_rpm, "rpm")
     if n_end >= n_start:
         raise InputError(f"n_end ({quantity(n_end, 'rpm')}) must be below n_start ({quantity(n_start, 'rpm')})")
-    load = braking_load(load)
+    load = load_torque(load, signed=True)
     rtol = require_positive("rtol", rtol)
+    if _kind(motor) == "wound rotor":  # quasi-steady: no circuit transient, so no supply, drop or inductance
+        return _plug_rotor(motor, r_brake_ohm, j, load, n_start, n_end, rtol)
+    v_eff = effective_supply_v(v_supply_v, brush_drop_v)
+    dynamic = chosen == "dynamic"
+    circuit = _circuit(motor, dynamic, v_eff - v_supply_v if dynamic else v_eff, r_brake_ohm)
+    l_h = require_positive("l_circuit", l_circuit_h, "H")
 
     build = None
     if not circuit.constant_flux and dynamic:
@@ -716,6 +713,183 @@ def simulate_stop(
         i_end_a=trace.i_a,
         n_end_rpm=n_end,
         build_up=build,
+    )
+
+
+#: The lowering modes of a wound-rotor motor.
+_ROTOR_LOWERING = ("counter-torque", "regenerative")
+
+
+def _rotor_lowering_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, mode: str) -> float:
+    r"""Steady lowering speed of a wound-rotor motor holding an overhauling load, in the lowering direction.
+
+    Parameters
+    ----------
+    motor : WoundRotorMotor
+        The machine (:mod:`notchwise.formulas.induction_motor`). [-]
+    r_external_ohm : float
+        External rotor resistance per phase, rotor side. [ohm]
+    lowering_torque_nm : float
+        Torque of the descending load on the motor shaft, above zero. [N·m]
+    mode : {"counter-torque", "regenerative"}
+        ``counter-torque``: stator connected for hoisting; the load drives the
+        motor backwards against its torque, slip above 1. ``regenerative``:
+        stator connected for lowering; the load drives it above synchronous
+        speed, slip below 0, and it returns power to the supply. [-]
+
+    Returns
+    -------
+    float
+        Lowering speed, above zero. [rpm]
+
+    Notes
+    -----
+    With :math:`x = R'/s` the torque :math:`T(x)` is Eq. 6.36 of [3]_ (the
+    Thevenin torque). Counter-torque: :math:`T(x) = T_L` on the stable side
+    (:math:`x` above breakdown), :math:`s = R'/x > 1`,
+    :math:`n = n_s (s - 1)`. Regenerative: :math:`T(x) = -T_L` with
+    :math:`x < 0` of larger magnitude, :math:`s = R'/x < 0`,
+    :math:`n = n_s (1 - s)`. In both, :math:`x` is fixed by the torque, so the
+    slip, hence the descent, grows in proportion to :math:`R'`: MORE rotor
+    resistance lowers FASTER; in regenerative lowering the least speed is
+    with the rotor short-circuited.
+
+    Raises
+    ------
+    DesignError
+        Counter-torque: the load is too light to overhaul the motor's
+        standstill torque (the motor hoists it), or it is above the breakdown
+        torque (nothing holds it). Regenerative: the load is above the
+        generating breakdown torque. Either: the speed would pass twice
+        synchronous speed, where the model ends.
+    """
+    t = require_positive("lowering_torque", lowering_torque_nm, "N·m")
+    r2 = motor.rotor_circuit_ohm(r_external_ohm)
+    n_s = motor.sync_speed_rpm
+    if mode == "counter-torque":
+        t_rest = float(motor.torque_at_slip_nm(1.0, r2))
+        if t <= t_rest:
+            raise DesignError(
+                f"no lowering speed: the load ({quantity(t, 'N·m')}) is too light to overhaul the motor, which "
+                f"gives {quantity(t_rest, 'N·m')} at standstill on r_external ({quantity(r_external_ohm, 'ohm')}) "
+                "and hoists it; counter-torque lowering of this load needs more rotor resistance"
+            )
+        t_max = motor.breakdown_torque_nm
+        if t > t_max:
+            raise DesignError(
+                f"the load is not held: lowering_torque ({quantity(t, 'N·m')}) is above the breakdown torque "
+                f"({quantity(t_max, 'N·m')}), so the load accelerates downwards without a steady speed"
+            )
+        slip = r2 / motor.r_over_s_at_torque(t)  # Eq. 6.36 of [3], stable root, s > 1
+        n = n_s * (slip - 1.0)
+    else:
+        t_max = motor.generating_breakdown_torque_nm
+        if t > t_max:
+            raise DesignError(
+                f"the load is not held: lowering_torque ({quantity(t, 'N·m')}) is above the generating breakdown "
+                f"torque ({quantity(t_max, 'N·m')}), so the load accelerates downwards without a steady speed"
+            )
+        slip = r2 / motor.r_over_s_generating_at_torque(t)  # Eq. 6.36 of [3], T = -T_L, s < 0
+        n = n_s * (1.0 - slip)
+    if n > MAX_SPEED_PER_SYNC * n_s:
+        raise DesignError(
+            f"the load is not held within the motor's model: the lowering speed ({quantity(n, 'rpm')}) would pass "
+            f"twice synchronous speed ({quantity(MAX_SPEED_PER_SYNC * n_s, 'rpm')}); less rotor resistance lowers slower"
+        )
+    return n
+
+
+def _plug_rotor(motor, r_brake_ohm: float, j: float, load: LoadTorque, n_start: float, n_end: float,
+                rtol: float) -> StopResult:
+    r"""A plugging stop of a wound-rotor motor with ``r_brake_ohm`` in its rotor, quasi-steady.
+
+    Parameters
+    ----------
+    motor : WoundRotorMotor
+        The machine. [-]
+    r_brake_ohm : float
+        External rotor resistance per phase, rotor side. [ohm]
+    j : float
+        Inertia referred to the motor shaft. [kg·m²]
+    load : LoadTorque
+        Load torque against motion (positive helps the stop). [N·m]
+    n_start, n_end : float
+        Speeds at which braking begins and the stop ends, checked. [rpm]
+    rtol : float
+        Relative tolerance of the quadratures. [-]
+
+    Returns
+    -------
+    StopResult
+        ``i_peak_a`` and ``i_end_a`` are rotor currents (rotor side, per phase);
+        ``energy_supply_j`` is what the stator draws (air-gap power plus stator
+        copper loss).
+
+    Notes
+    -----
+    Two stator phases swapped: the field turns against the rotor, the slip is
+    :math:`s = 1 + n/n_s` and the torque :math:`T(s, R')` (Eq. 6.36 of [3]_)
+    opposes motion. The rotor's electrical transient is neglected (as in the
+    quasi-steady start), so time and energies are quadratures over speed:
+
+    .. math::
+
+        t = J\frac{2\pi}{60}\int_{n_e}^{n_0}\frac{dn}{T + T_L},\qquad
+        W_{rotor} = J\frac{2\pi}{60}\int_{n_e}^{n_0}\frac{s\,T\,\omega_s}{T + T_L}dn,
+
+    the rotor copper loss being :math:`s P_{ag}` with :math:`P_{ag} = T\omega_s`
+    ([3]_ sec. 6.4); the braking resistor takes the share
+    :math:`(R' - R_2')/R'`. The rotor current rises with the slip, so its peak
+    is at the start of braking.
+    """
+    r2 = motor.rotor_circuit_ohm(r_brake_ohm)
+    n_s = motor.sync_speed_rpm
+    if n_start > MAX_SPEED_PER_SYNC * n_s:
+        raise InputError(f"n_start ({quantity(n_start, 'rpm')}) must be at most twice synchronous speed "
+                         f"({quantity(MAX_SPEED_PER_SYNC * n_s, 'rpm')}) for a wound-rotor motor")
+
+    def slip(n):
+        return 1.0 + np.asarray(n, dtype=float) / n_s
+
+    def braking(n):
+        return motor.torque_at_slip_nm(slip(n), r2)
+
+    speeds = np.linspace(n_end, n_start, _SPEED_POINTS)
+    _check_decelerates(speeds, braking(speeds) + load.at(speeds), "plugging", n_end)
+    breaks = [float(n) for n in load.speed_rpm if n_end < n < n_start]
+    scale = j * RAD_S_PER_RPM
+
+    def over_speed(f):
+        value, _ = quad(lambda n: f(n) / (float(braking(n)) + float(load.at(n))), n_end, n_start, points=breaks or None,
+                        epsrel=rtol, epsabs=0.0, limit=200)
+        return scale * value
+
+    omega_s = motor.omega_sync_rad_s
+    t_stop = over_speed(lambda n: 1.0)
+    rotor_j = over_speed(lambda n: float(slip(n) * braking(n)) * omega_s)  # s P_ag, sec. 6.4 of [3]
+
+    def stator_w(n):
+        i1 = float(motor.currents(slip(n), r2).stator_a)
+        return float(braking(n)) * omega_s + 3.0 * motor.r_stator_ohm * i1 * i1
+
+    supply_j = over_speed(stator_w)
+    if not all(map(math.isfinite, (t_stop, rotor_j, supply_j))):
+        raise DesignError("the plugging stop has no finite time: the braking torque barely exceeds the driving load")
+    currents = motor.currents(slip(np.array([n_start, n_end])), r2).rotor_a
+    share = (r2 - motor.r_rotor_ohm) / r2
+    return StopResult(
+        t_stop_s=t_stop,
+        revolutions=over_speed(lambda n: n) / 60.0,
+        i_peak_a=float(currents[0]),
+        n_peak_rpm=n_start,
+        torque_start_nm=float(braking(n_start)),
+        torque_end_nm=float(braking(n_end)),
+        energy_brake_j=share * rotor_j,
+        energy_motor_j=(1.0 - share) * rotor_j,
+        energy_supply_j=supply_j,
+        i_end_a=float(currents[1]),
+        n_end_rpm=n_end,
+        build_up=None,
     )
 
 

@@ -454,6 +454,53 @@ class WoundRotorMotor:
         """Whole rotor resistance (rotor side) of the next step: :math:`R_{k+1} = R_k x_1/x_2` (module docstring). [ohm]"""
         return r_ohm * self.r_over_s_at_torque(t_peak_nm) / self.r_over_s_at_torque(t_switch_nm)
 
+    # --- what braking and lowering ask of the machine (notchwise.formulas.braking) ----------------------------
+
+    def rotor_circuit_ohm(self, r_external_ohm) -> float:
+        """Whole rotor resistance per phase referred to the stator: own plus ``r_external_ohm`` (rotor side). [ohm]"""
+        return self._r_referred(r_external_ohm)
+
+    @property
+    def generating_breakdown_torque_nm(self) -> float:
+        r"""Greatest braking torque above synchronous speed (slip below zero), whatever the rotor resistance. [N·m]
+
+        .. math:: T_{max,gen} = \frac{3 V_{th}^2}{2\,\omega_s\,(\sqrt{R_{th}^2 + X^2} - R_{th})}
+
+        (Eq. 6.36 of [1]_ at :math:`x = R'/s = -\sqrt{R_{th}^2 + X^2}`; larger than
+        the motoring breakdown torque by the stator resistance.) ``inf`` for a
+        circuit without reactance.
+        """
+        v_th, z_th = self._thevenin()
+        denominator = 2.0 * self.omega_sync_rad_s * (self.breakdown_r_over_s_ohm - z_th.real)
+        return 3.0 * abs(v_th) ** 2 / denominator if denominator > 0.0 else math.inf  # Eq. 6.36 of [1] at x = -Z
+
+    def r_over_s_generating_at_torque(self, torque_nm: float) -> float:
+        r"""The value of :math:`x = R'/s < 0` near synchronous speed at which the braking torque is ``torque_nm``.
+
+        .. math::
+
+            T x^2 + (2 T R_{th} + k) x + T (R_{th}^2 + X^2) = 0,\qquad k = 3 V_{th}^2/\omega_s,
+
+        the root of larger magnitude (the stable side, slip nearer zero): Eq. 6.36
+        of [1]_ with the torque :math:`-T` of a generator. [ohm]
+
+        Raises
+        ------
+        DesignError
+            Where ``torque_nm`` is above the generating breakdown torque.
+        """
+        v_th, z_th = self._thevenin()
+        t_max = self.generating_breakdown_torque_nm
+        if torque_nm > t_max:
+            raise DesignError(
+                f"the braking torque asked ({quantity(torque_nm, 'N·m')}) is above the generating breakdown torque "
+                f"({quantity(t_max, 'N·m')}): no speed above synchronous gives it"
+            )
+        k = 3.0 * abs(v_th) ** 2 / self.omega_sync_rad_s
+        b = k + 2.0 * torque_nm * z_th.real
+        root = math.sqrt(max(b * b - 4.0 * torque_nm**2 * self.breakdown_r_over_s_ohm**2, 0.0))
+        return -(b + root) / (2.0 * torque_nm)  # Eq. 6.36 of [1], the root of larger magnitude
+
 
 def geometric_steps(r_first: float, r_last: float, ratio: float, steps=None, limit_text: str = "") -> tuple[int, float]:
     r"""Steps and ratio of a geometric grading :math:`R_{k+1} = q R_k` from ``r_first`` landing on ``r_last``.

@@ -31,7 +31,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import DesignError, InputError, as_float, as_float_array, choose, quantity, require_non_negative, require_positive
+from .errors import (
+    DesignError, InputError, as_float, as_float_array, choose, quantity, require_count, require_non_negative, require_positive,
+)
 from .grading import checked_sections
 from .start_sim import StartResult, simulate_start
 
@@ -48,6 +50,9 @@ __all__ = [
     "rise_verdict",
     "ColdHotStart",
     "cold_hot_start",
+    "braking_grid_ohm",
+    "CycleDuty",
+    "cycle_duty",
 ]
 
 #: Temperature at which resistivity and section values are quoted. [°C]
@@ -328,3 +333,110 @@ def cold_hot_start(
     r_hot = resistance_at_c(sections, hot_temperature, alloy)
     hot = simulate_start(motor, v_supply_v, r_hot, l_circuit_h, inertia_kgm2, load, **run)
     return ColdHotStart(cold, hot, rise, hot_temperature, np.atleast_1d(r_cold), np.atleast_1d(r_hot))
+
+
+def _brake_from(r_section_ohm, brake_from) -> tuple[np.ndarray, int]:
+    """The sections and the checked first braking section (1-based)."""
+    r = as_float_array("r_section", r_section_ohm, "ohm")
+    first = require_count("brake_from", brake_from, 1, r.size)
+    return r, first
+
+
+def braking_grid_ohm(r_section_ohm, brake_from: int = 1) -> float:
+    """Braking resistance made of the grid's sections ``brake_from`` to the last (those in circuit on that notch).
+
+    Parameters
+    ----------
+    r_section_ohm : array_like
+        Sections in the order they are cut out. [ohm]
+    brake_from : int, optional
+        First section of the braking resistor, 1 (the whole grid) to the number of sections. [-]
+
+    Returns
+    -------
+    float
+        :math:`R_b = \sum_{s \ge b} R_s`. [ohm]
+    """
+    r, first = _brake_from(r_section_ohm, brake_from)
+    return float(np.sum(r[first - 1:]))  # the sections still in circuit on notch b
+
+
+@dataclass(frozen=True)
+class CycleDuty:
+    """Duty of each section over a cycle of starts and braking stops.
+
+    Attributes
+    ----------
+    energy_start_j, energy_stop_j : numpy.ndarray
+        Energy per start, and per stop (0 J in a section outside the braking resistor). [J]
+    i_rms_a : numpy.ndarray
+        r.m.s. current over the hour, starts and stops together. [A]
+    power_w : numpy.ndarray
+        Mean power over the hour. [W]
+    rise_k : numpy.ndarray
+        Adiabatic rise of one start followed by one stop, no cooling between. [K]
+    verdict : tuple of str
+        :func:`rise_verdict` of ``rise_k``. [-]
+    """
+
+    energy_start_j: np.ndarray
+    energy_stop_j: np.ndarray
+    i_rms_a: np.ndarray
+    power_w: np.ndarray
+    rise_k: np.ndarray
+    verdict: tuple
+
+
+def cycle_duty(r_section_ohm, i2t_start_a2s, i2t_stop_a2s: float, brake_from: int, starts_per_hour: float,
+               stops_per_hour: float, start_time_s: float, stop_time_s: float, mass_kg, alloy) -> CycleDuty:
+    r"""Energy, r.m.s. current, mean power and adiabatic rise of each section over a cycle of starts and stops.
+
+    Parameters
+    ----------
+    r_section_ohm : array_like
+        Sections in the order they are cut out. [ohm]
+    i2t_start_a2s : array_like
+        :math:`\int i^2 dt` over each notch of one start (``StartResult.i2t_a2s``). [A²·s]
+    i2t_stop_a2s : float
+        :math:`\int i^2 dt` of one braking stop, at or above zero. [A²·s]
+    brake_from : int
+        The braking current flows through sections ``brake_from`` to the last
+        (:func:`braking_grid_ohm`). [-]
+    starts_per_hour, stops_per_hour : float
+        Operations per hour, above zero. [1/h]
+    start_time_s, stop_time_s : float
+        Duration of one start and of one stop; together they must fit in the hour. [s]
+    mass_kg : float or array_like
+        Mass of resistive element per section. [kg]
+    alloy : str or Alloy
+        Grid alloy. [-]
+
+    Returns
+    -------
+    CycleDuty
+
+    Notes
+    -----
+    .. math::
+
+        I_{rms}^2 = \frac{z_a}{3600}\sum_{k\le s}\int_{start} i^2 dt + \frac{z_b}{3600}[s \ge b]\int_{stop} i^2 dt,
+        \qquad P = \frac{z_a E_a + z_b E_b}{3600}, \qquad \Delta\theta = \frac{E_a + E_b}{m c}
+
+    the r.m.s. over the hour (its definition) and the first law of a body
+    without losses; the verdict is against IEEE Std 32's limits as
+    :func:`rise_verdict` states them.
+    """
+    r, first = _brake_from(r_section_ohm, brake_from)
+    z_a = require_positive("starts_per_hour", starts_per_hour, "1/h")
+    z_b = require_positive("stops_per_hour", stops_per_hour, "1/h")
+    t_a, t_b = require_positive("start time", start_time_s, "s"), require_positive("stop time", stop_time_s, "s")
+    if z_a * t_a + z_b * t_b > 3600.0:
+        raise DesignError(
+            f"{z_a:g} starts of {quantity(t_a, 's')} and {z_b:g} stops of {quantity(t_b, 's')} per hour do not fit in an hour"
+        )
+    stop_i2t = np.zeros(r.size)
+    stop_i2t[first - 1] = require_non_negative("i2t of the stop", i2t_stop_a2s, "A²·s")  # in circuit from notch b on
+    start, stop = section_duty(r, i2t_start_a2s, z_a, t_a), section_duty(r, stop_i2t, z_b, t_b)
+    rise = adiabatic_rise_k(start.energy_j + stop.energy_j, mass_kg, alloy)
+    return CycleDuty(start.energy_j, stop.energy_j, np.hypot(start.i_rms_a, stop.i_rms_a), start.power_w + stop.power_w,
+                     rise, rise_verdict(rise))

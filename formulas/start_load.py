@@ -1,9 +1,19 @@
-"""Load torque against speed, referred to the motor shaft, for the start in time.
+"""Load torque against speed, referred to the motor shaft, for the start in time and the stop.
 
 A constant torque or a table of (speed, torque) rows, interpolated linearly
-and held at its end values. The load is a reaction at standstill (module
-docstring of :mod:`notchwise.formulas.start_sim`); an overhauling (driving)
-load is outside this model and is refused.
+and held at its end values. Two kinds of load, told apart by sign:
+
+* **reactive** (the default; every value at or above zero): friction,
+  a conveyor, a hoist held by its brake. At standstill it is a reaction: it
+  never drives the shaft backwards (module docstring of
+  :mod:`notchwise.formulas.start_sim`).
+* **potential** (``signed=True`` and some value below zero): a gravity load
+  being lowered, which drives the shaft (overhauls) and acts at standstill
+  too, so the shaft moves as soon as the brake lifts. Positive torque opposes
+  motion, negative torque drives it.
+
+The start in time and the stop accept signed loads; the grading, the worst
+case and the wound-rotor start take reactive loads only.
 """
 
 from __future__ import annotations
@@ -27,7 +37,8 @@ class LoadTorque:
         Speeds of the table, strictly rising, from 0 rpm or above; one entry
         for a constant load. [rpm]
     torque_nm : numpy.ndarray
-        Load torque at each speed, at or above zero. Between points it is
+        Load torque at each speed: positive opposes motion, negative (a
+        potential load only) drives the shaft. Between points it is
         interpolated linearly; beyond the ends it is held at the end value. [N·m]
     """
 
@@ -39,6 +50,11 @@ class LoadTorque:
         """True when the load torque does not depend on speed."""
         return bool(np.all(self.torque_nm == self.torque_nm[0]))
 
+    @property
+    def potential(self) -> bool:
+        """True for a load that drives the shaft somewhere (a signed load with a value below zero)."""
+        return bool(np.any(self.torque_nm < 0.0))
+
     def at(self, n_rpm):
         """Load torque at speed ``n_rpm``. [N·m]"""
         return np.interp(n_rpm, self.speed_rpm, self.torque_nm)
@@ -49,23 +65,30 @@ class LoadTorque:
         return float(self.at(0.0))
 
 
-def load_torque(torque) -> LoadTorque:
+def load_torque(torque, signed: bool = False) -> LoadTorque:
     """A validated load torque from a number or a table of (speed, torque) rows.
 
     Parameters
     ----------
-    torque : float or array_like
+    torque : float, array_like or LoadTorque
         A constant torque [N·m], or rows of (speed [rpm], torque [N·m]) with
-        speeds strictly rising from 0 rpm or above.
+        speeds strictly rising from 0 rpm or above. [N·m]
+    signed : bool, optional
+        True to accept negative (driving) torque: a potential load (module
+        docstring); False refuses it. [-]
 
     Returns
     -------
     LoadTorque
     """
+    if isinstance(torque, LoadTorque):
+        if torque.potential and not signed:
+            raise InputError("load_torque drives the shaft (a value below zero): an overhauling load is outside this model")
+        return torque
     rows = np.asarray(torque, dtype=object)
     if rows.ndim == 0 or rows.size == 1:
         value = as_float_array("load_torque", torque, "N·m")[0]
-        if value < 0.0:
+        if value < 0.0 and not signed:
             raise InputError(f"load_torque ({quantity(value, 'N·m')}) must not be negative: an overhauling load is outside this model")
         return LoadTorque(np.array([0.0]), np.array([value]))
     if rows.ndim != 2 or rows.shape[1] < 2:
@@ -77,7 +100,7 @@ def load_torque(torque) -> LoadTorque:
     if np.any(np.diff(speed) <= 0.0):
         k = int(np.argmax(np.diff(speed) <= 0.0))
         raise InputError(f"load_torque speeds must rise strictly: row {k + 2} ({quantity(speed[k + 1], 'rpm')}) does not exceed row {k + 1}")
-    if np.any(value < 0.0):
+    if np.any(value < 0.0) and not signed:
         k = int(np.argmax(value < 0.0))
         raise InputError(f"load_torque row {k + 1} ({quantity(value[k], 'N·m')}) must not be negative: an overhauling load is outside this model")
     return LoadTorque(speed, value)

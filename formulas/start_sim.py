@@ -23,12 +23,19 @@ forms (shaft at rest, shunt motor against a constant load) are
 outcomes are :mod:`notchwise.formulas.start_notch`. This module orchestrates
 the notches and samples the history.
 
-Standstill. The load is taken as a reaction at standstill: a shaft at rest
-stays at rest while the motor torque is at or below the load torque at 0 rpm
-(a hoist brake, static friction, a conveyor's breakaway torque), and a shaft
-that slows to rest stays there until the motor torque exceeds it again. The
-motor is never driven backwards by the load; an overhauling load is outside
-this model. At rest the back-EMF is zero, so the current is the first-order
+Standstill. A reactive load (every value at or above zero, the default of
+:func:`~notchwise.formulas.start_load.load_torque`) is taken as a reaction at
+standstill: a shaft at rest stays at rest while the motor torque is at or
+below the load torque at 0 rpm (a hoist brake, static friction, a conveyor's
+breakaway torque), and a shaft that slows to rest stays there until the motor
+torque exceeds it again; the motor is never driven backwards by it. A
+potential load (a signed load with a value below zero: a gravity load being
+lowered, motor connected for lowering) drives the shaft: it acts at standstill
+too, so the shaft moves from the first instant, and above the no-load speed the
+motor's current reverses and it brakes (a shunt or separately excited motor
+regenerates); the steady speed is where its braking torque equals the driving
+load. A series motor cannot regenerate with its field in series: driven by
+the load it runs away, and the start says so. At rest the back-EMF is zero, so the current is the first-order
 lag :math:`i = I_\infty + (i_0 - I_\infty)e^{-tR/L}`, :math:`I_\infty = (V-V_b)/R`,
 for every kind of motor; the instant of breakaway follows in closed form. No
 solver steps across the standstill discontinuity.
@@ -198,13 +205,17 @@ def settling_current_a(motor: Machine, v_eff_v: float, r_ohm: float, load: LoadT
     r_ohm : float
         Whole circuit resistance, machine included. [ohm]
     load : LoadTorque
-        Load torque against speed.
+        Load torque against speed; a potential (driving) load is held by a
+        reversed current where the machine's torque reverses with it.
 
     Returns
     -------
     float
         The settling current; ``inf`` where the motor cannot turn the load on
-        this circuit at all. [A]
+        this circuit at all; ``-inf`` where a driving load is not held even
+        by the reversed current ``-v_eff_v/r_ohm`` (twice the no-load speed
+        for constant flux), or the machine's torque does not reverse with its
+        current (a series field). [A]
     """
     i_top = min(v_eff_v / r_ohm, motor.i_max_a)
 
@@ -213,9 +224,13 @@ def settling_current_a(motor: Machine, v_eff_v: float, r_ohm: float, load: LoadT
 
     if surplus_nm(i_top) <= 0.0:
         return np.inf
-    if surplus_nm(0.0) >= 0.0:
+    if surplus_nm(0.0) <= 0.0:
+        return brentq(surplus_nm, 0.0, i_top, xtol=1e-10, rtol=1e-13)
+    if not load.potential:
         return 0.0
-    return brentq(surplus_nm, 0.0, i_top, xtol=1e-10, rtol=1e-13)
+    if motor.runs_away_unloaded or not surplus_nm(-i_top) < 0.0:  # a series field reverses with the current
+        return -np.inf
+    return brentq(surplus_nm, -i_top, 0.0, xtol=1e-10, rtol=1e-13)  # the motor regenerates against the load
 
 
 def _check_stalls(motor, v_eff, r_notch, load, i_cut):
@@ -284,7 +299,8 @@ def simulate_start(
         Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
     load : float, array_like or LoadTorque
         Load torque referred to the motor shaft: a constant [N·m] or rows of
-        (speed [rpm], torque [N·m]).
+        (speed [rpm], torque [N·m]); negative values make it a potential
+        load that drives the shaft (module docstring). [N·m]
     i_cut_a : float, optional
         Cut-out current of current-limit switching. [A]
     dwell_s : array_like, optional
@@ -321,7 +337,7 @@ def simulate_start(
     l_h = require_positive("l_circuit", l_circuit_h, "H")
     j = require_positive("inertia", inertia_kgm2, "kg·m²")
     motor.require_dynamics()
-    load = load if isinstance(load, LoadTorque) else load_torque(load)
+    load = load_torque(load, signed=True)
     i_cut, dwells = _switching(i_cut_a, dwell_s, sections.size)
     method = choose("method", method, ("auto", "integrate"))
     rtol = require_positive("rtol", rtol)
@@ -329,6 +345,13 @@ def simulate_start(
     r_motor = motor.r_ohm
     r_notch = notch_resistances_ohm(r_motor, sections)
     i_final = settling_current_a(motor, v_eff, r_motor, load)
+    if i_final == -np.inf:
+        raise StartIncomplete(
+            "runs away", None, np.inf,
+            f"the overhauling load runs the {motor.kind} motor away: driven beyond its no-load speed, the motor "
+            "cannot brake it (a series field reverses with the current; a shunt motor would need more than twice "
+            "its no-load speed); lower it with a braking connection (NW_LOWERING_SPEED)",
+        )
     if not np.isfinite(i_final):
         i_stall = min(v_eff / r_motor, motor.i_max_a)
         raise StartIncomplete(

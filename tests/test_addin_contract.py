@@ -77,6 +77,8 @@ EXAMPLES = {
     "NW_STOP_SIM": (SHUNT_MOTOR, 0.5, "plugging", 50.0, 1000.0, M, M, M, 1100.0),
     "NW_LOWERING_SPEED": (SERIES_MOTOR, 0.5, ((100.0,), (300.0,)), "dynamic", SERIES_CURVE),
     "NW_LOWERING_CHECK": (SHUNT_MOTOR, 0.5, ((100.0,), (300.0,)), "Dynamic", 1200.0, M, M),
+    "NW_CYCLE_HEATING": (SHUNT_MOTOR, SECTIONS, 50.0, 200.0, "AISI 304", 3.0, 20.0, "plugging", 50.0, 1000.0, 20.0,
+                         2.0, M, M, M, M),
 }
 
 #: Words VBA reserves (Office VBA language reference, "Keywords"); an argument may not use them.
@@ -234,6 +236,10 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
         ("NW_LOWERING_SPEED", 2, 10.0, "the series field does not build up at 10 N·m"),
         ("NW_LOWERING_SPEED", 3, "regenerative", "mode regenerative does not apply to lowering of a series motor"),
         ("NW_LOWERING_CHECK", 4, -5.0, "n_max (-5 rpm) must be above zero"),
+        ("NW_CYCLE_HEATING", 11, 9.0, "brake_from (9) must be from 1 to 3"),
+        ("NW_CYCLE_HEATING", 10, -2.0, "stops_per_hour (-2 1/h) must be above zero"),
+        ("NW_CYCLE_HEATING", 7, "regenerative", "mode regenerative does not apply to a stop of a shunt motor"),
+        ("NW_LOWERING_SPEED", 0, ROTOR_MOTOR, "mode dynamic: dynamic braking of a wound-rotor motor is by DC injection"),
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
@@ -243,6 +249,18 @@ def test_bad_input_message_names_the_argument_and_limit(excel, name, position, b
     result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
     text = result[0][0] if isinstance(result, list) else result
     assert text.startswith("Error: ") and words in text, text
+
+
+def test_wound_rotor_block_reaches_braking_and_lowering(excel):
+    udfs, _, conversion = excel
+    stop = call_like_excel(conversion, udfs.NW_STOP_SIM, (ROTOR_MOTOR, 0.1, "plugging", 500.0, 950.0, M, M, M, 1100.0))
+    assert stop[1][0] == "time to n_end" and stop[1][1] > 0.0, stop
+    injection = call_like_excel(conversion, udfs.NW_STOP_SIM, (ROTOR_MOTOR, 0.1, "dynamic", 500.0, 950.0, M, M, M, M))
+    assert "by DC injection into the stator, which is not modelled" in str(injection), injection
+    light = call_like_excel(conversion, udfs.NW_LOWERING_SPEED, (ROTOR_MOTOR, 0.05, 100.0, "counter-torque", M))
+    assert "too light to overhaul" in str(light), light
+    fast = call_like_excel(conversion, udfs.NW_LOWERING_CHECK, (ROTOR_MOTOR, 0.05, ((2000.0,), (4000.0,)), "regenerative", 1100.0, M, M))
+    assert fast[1][1] < fast[2][1] and fast[1][1] > 1000.0, fast
 
 
 def test_blank_optional_in_the_middle_means_its_default(excel):

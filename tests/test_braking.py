@@ -16,7 +16,6 @@ from hypothesis import strategies as st
 from scipy.integrate import solve_ivp
 
 from notchwise.formulas.braking import (
-    braking_load,
     brake_resistance_ohm,
     lowering_speed_rpm,
     overspeed_margin,
@@ -25,6 +24,7 @@ from notchwise.formulas.braking import (
 from notchwise.formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
 from notchwise.formulas.dc_motor import CompoundMotor, SeriesMotor, ShuntMotor, magnetization_curve
 from notchwise.formulas.errors import DesignError, InputError
+from notchwise.formulas.start_load import load_torque
 
 RAD = 2.0 * math.pi / 60.0
 V = 440.0
@@ -289,8 +289,9 @@ def test_bad_inputs_give_a_message(call, words):
 
 
 def test_a_signed_load_keeps_its_sign():
-    assert braking_load(-120.0).at(500.0) == pytest.approx(-120.0)
-    table = braking_load([[0.0, -50.0], [1000.0, 80.0]])
+    assert load_torque(-120.0, signed=True).at(500.0) == pytest.approx(-120.0)
+    table = load_torque([[0.0, -50.0], [1000.0, 80.0]], signed=True)
+    assert table.potential and not load_torque(50.0).potential
     assert table.at(500.0) == pytest.approx(15.0)
 
 
@@ -323,3 +324,142 @@ def test_every_stop_ends_or_says_why(motor, mode, r_b, l_h, t_load, n0, end_shar
         figures = [result.t_stop_s, result.revolutions, result.i_peak_a, result.energy_brake_j, result.energy_supply_j]
         assert all(math.isfinite(x) and x >= 0.0 for x in figures)
         assert result.n_peak_rpm >= n0
+
+
+# -- the wound-rotor motor: counter-torque and regenerative lowering, plugging -----------------------
+# The circuit: per-phase T circuit, torque T = 3 |I2'|² (R'/s) / ω_s from the air-gap power
+# (Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003, sec. 6.4, P_ag = 3 I2'² R2'/s;
+# Eq. 6.36 for the Thevenin form; equation numbers from memory). The checks below solve the full
+# T circuit written out here with complex numbers, independent of the core's Thevenin closed forms.
+
+from notchwise.formulas.induction_motor import WoundRotorMotor  # noqa: E402
+from scipy.integrate import quad  # noqa: E402
+from scipy.optimize import brentq  # noqa: E402
+
+ROTOR = WoundRotorMotor(0.05, 0.25, 10.0, 0.06, 0.3, 400.0, 50.0, 6, 300.0, 20.0)
+
+
+def full_circuit_torque(motor, slip, r2):
+    """Air-gap torque from the T circuit's rotor current: 3 |I2'|² R'/s / ω_s (sec. 6.4 of Fitzgerald et al.)."""
+    v1 = motor.v_line_v / math.sqrt(3.0)
+    z_rotor = r2 / slip + 1j * motor.x_rotor_ohm
+    z_m = 1j * motor.x_magnetizing_ohm
+    z = motor.r_stator_ohm + 1j * motor.x_stator_ohm + z_m * z_rotor / (z_m + z_rotor)
+    i1 = v1 / z
+    i2 = i1 * z_m / (z_m + z_rotor)
+    return 3.0 * abs(i2) ** 2 * (r2 / slip) / motor.omega_sync_rad_s
+
+
+def thevenin(motor):
+    """Thevenin voltage, resistance and total reactance seen by the rotor (Eqs. 6.34-6.35, written anew here)."""
+    z1, zm = complex(motor.r_stator_ohm, motor.x_stator_ohm), 1j * motor.x_magnetizing_ohm
+    v_th = abs(motor.v_line_v / math.sqrt(3.0) * zm / (z1 + zm))
+    z_th = z1 * zm / (z1 + zm)
+    return v_th, z_th.real, z_th.imag + motor.x_rotor_ohm
+
+
+@pytest.mark.parametrize("r_x, torque", [(1.0, 800.0), (1.5, 700.0), (3.0, 400.0)])
+def test_counter_torque_lowering_closed_form_and_full_circuit(r_x, torque):
+    r2 = ROTOR.rotor_circuit_ohm(r_x)
+    v_th, r_th, x = thevenin(ROTOR)
+    k = 3.0 * v_th**2 / ROTOR.omega_sync_rad_s
+    # Closed form: T x² + (2 T R_th - k) x + T (R_th² + X²) = 0 in x = R'/s, the larger (stable) root.
+    b = k - 2.0 * torque * r_th
+    x_root = (b + math.sqrt(b * b - 4.0 * torque**2 * (r_th**2 + x**2))) / (2.0 * torque)
+    s_closed = r2 / x_root
+    assert s_closed > 1.0
+    n = lowering_speed_rpm(ROTOR, r_x, torque, "counter-torque")
+    assert n == pytest.approx(ROTOR.sync_speed_rpm * (s_closed - 1.0), rel=1e-9)
+    # Second method: brentq on the full circuit's power balance, slip between 1 and breakdown slip.
+    s_bd = r2 / math.hypot(r_th, x)
+    s_full = brentq(lambda s: full_circuit_torque(ROTOR, s, r2) - torque, 1.0, s_bd, xtol=1e-14)
+    assert n == pytest.approx(ROTOR.sync_speed_rpm * (s_full - 1.0), rel=1e-7)
+
+
+@pytest.mark.parametrize("r_x, torque", [(0.0, 800.0), (0.2, 300.0), (0.5, 1200.0)])
+def test_regenerative_lowering_closed_form_and_full_circuit(r_x, torque):
+    r2 = ROTOR.rotor_circuit_ohm(r_x)
+    v_th, r_th, x = thevenin(ROTOR)
+    k = 3.0 * v_th**2 / ROTOR.omega_sync_rad_s
+    # Closed form: -T [(R_th + x)² + X²] = k x for x = R'/s < 0, the root of larger magnitude.
+    b = k + 2.0 * torque * r_th
+    x_root = -(b + math.sqrt(b * b - 4.0 * torque**2 * (r_th**2 + x**2))) / (2.0 * torque)
+    s_closed = r2 / x_root
+    assert s_closed < 0.0
+    n = lowering_speed_rpm(ROTOR, r_x, torque, "regenerative")
+    assert n == pytest.approx(ROTOR.sync_speed_rpm * (1.0 - s_closed), rel=1e-9)
+    s_bd = -r2 / math.hypot(r_th, x)  # generating breakdown slip
+    s_full = brentq(lambda s: full_circuit_torque(ROTOR, s, r2) + torque, s_bd, -1e-12, xtol=1e-15)
+    assert n == pytest.approx(ROTOR.sync_speed_rpm * (1.0 - s_full), rel=1e-7)
+
+
+@pytest.mark.parametrize("mode, r_values, torque", [("regenerative", (0.0, 0.3, 0.6), 600.0),
+                                                     ("counter-torque", (1.5, 2.0, 3.0), 700.0)])
+def test_more_rotor_resistance_lowers_faster(mode, r_values, torque):
+    # x = R'/s is fixed by the torque, so the slip grows with R' (sec. 6.7 of Fitzgerald et al., from memory).
+    speeds = [lowering_speed_rpm(ROTOR, r, torque, mode) for r in r_values]
+    assert speeds == sorted(speeds) and speeds[0] < speeds[-1]
+
+
+def test_generating_breakdown_torque_closed_form():
+    v_th, r_th, x = thevenin(ROTOR)
+    z = math.hypot(r_th, x)
+    # |T| at x = -Z: k Z / ((R_th - Z)² + X²) = k / (2 (Z - R_th)).
+    assert ROTOR.generating_breakdown_torque_nm == pytest.approx(3.0 * v_th**2 / ROTOR.omega_sync_rad_s / (2.0 * (z - r_th)), rel=1e-12)
+    assert abs(full_circuit_torque(ROTOR, -ROTOR.rotor_circuit_ohm(0.0) / z, ROTOR.rotor_circuit_ohm(0.0))) == pytest.approx(
+        ROTOR.generating_breakdown_torque_nm, rel=1e-9)
+
+
+def test_rotor_lowering_with_no_steady_speed_says_why():
+    with pytest.raises(DesignError, match="too light to overhaul"):
+        lowering_speed_rpm(ROTOR, 0.2, 300.0, "counter-torque")
+    with pytest.raises(DesignError, match="above the breakdown torque"):
+        lowering_speed_rpm(ROTOR, 1.0, 1500.0, "counter-torque")
+    with pytest.raises(DesignError, match="generating breakdown"):
+        lowering_speed_rpm(ROTOR, 0.0, 1500.0, "regenerative")
+    with pytest.raises(DesignError, match="twice synchronous"):
+        lowering_speed_rpm(ROTOR, 1.0, 800.0, "regenerative")
+
+
+@pytest.mark.parametrize("call, words", [
+    (lambda: lowering_speed_rpm(ROTOR, 0.5, 500.0, "dynamic"), "DC injection"),
+    (lambda: simulate_stop(ROTOR, None, 0.5, "dynamic", None, J, 0.0, 900.0), "DC injection"),
+    (lambda: lowering_speed_rpm(SHUNT, 0.5, 500.0, "regenerative"), "does not apply"),
+    (lambda: lowering_speed_rpm(ROTOR, -0.5, 500.0, "counter-torque"), "r_external"),
+    (lambda: lowering_speed_rpm(ROTOR, 0.5, -5.0, "counter-torque"), "lowering_torque"),
+    (lambda: lowering_speed_rpm(ROTOR, math.nan, 500.0, "regenerative"), "r_external"),
+    (lambda: lowering_speed_rpm(ROTOR, 0.5, 500.0, "sideways"), "mode"),
+    (lambda: simulate_stop(ROTOR, None, 0.5, "plugging", None, J, 0.0, 2500.0), "twice synchronous"),
+    (lambda: simulate_stop(ROTOR, None, 0.5, "plugging", None, J, 0.0, 500.0, 600.0), "n_end"),
+    (lambda: simulate_stop(ROTOR, None, 0.5, "plugging", None, -1.0, 0.0, 500.0), "inertia"),
+    (lambda: simulate_stop(ROTOR, None, 0.5, "plugging", None, J, -5000.0, 900.0), "overhauls"),
+])
+def test_wound_rotor_bad_inputs(call, words):
+    with pytest.raises((InputError, DesignError), match=words):
+        call()
+
+
+def test_rotor_plugging_against_solve_ivp_and_the_energy_law():
+    r_x, n0 = 0.5, 950.0
+    r2 = ROTOR.rotor_circuit_ohm(r_x)
+    result = simulate_stop(ROTOR, None, r_x, "plugging", None, J, 0.0, n0)
+    n_s, w_s = ROTOR.sync_speed_rpm, ROTOR.omega_sync_rad_s
+
+    def rhs(t, y):  # J dω/dt = -T(s), s = 1 + n/n_s, the torque from the full circuit
+        return [-full_circuit_torque(ROTOR, 1.0 + y[0] / n_s, r2) / (J * RAD), y[0] / 60.0]
+
+    stop = lambda t, y: y[0]  # noqa: E731
+    stop.terminal = True
+    solution = solve_ivp(rhs, (0.0, 100.0), [n0, 0.0], events=stop, rtol=1e-10, atol=1e-9)
+    assert result.t_stop_s == pytest.approx(solution.t_events[0][0], rel=1e-6)
+    assert result.revolutions == pytest.approx(solution.y_events[0][0][1], rel=1e-6)
+    # With no load the rotor copper energy of plugging is ½ J ω_s² (s0² - s1²), whatever the torque curve
+    # (G. K. Dubey, Fundamentals of Electrical Drives, 2nd ed., 2001, energy relations in braking, from memory;
+    # it follows from rotor loss = s P_ag and J dω/dt = -P_ag/ω_s). From s0 = 1 + n0/n_s to s1 = 1.
+    s0 = 1.0 + n0 / n_s
+    rotor_energy = 0.5 * J * w_s**2 * (s0**2 - 1.0)
+    assert result.energy_brake_j + result.energy_motor_j == pytest.approx(rotor_energy, rel=1e-6)
+    assert result.energy_brake_j / (result.energy_brake_j + result.energy_motor_j) == pytest.approx(
+        (r2 - ROTOR.r_rotor_ohm) / r2, rel=1e-12)
+    # The rotor current peaks as braking begins: it is the T circuit's at s0.
+    assert result.i_peak_a == pytest.approx(float(ROTOR.currents(s0, r2).rotor_a), rel=1e-12)

@@ -47,6 +47,8 @@ VALID = {
     resistors.section_energy_j: ([0.5, 0.25], [1e4, 2e4]),
     resistors.section_duty: ([0.5, 0.25], [1e4, 2e4], 30.0, 6.0),
     resistors.adiabatic_rise_k: (5e4, 2.0, "AISI 304"),
+    resistors.braking_grid_ohm: ([0.5, 0.25], 1),
+    resistors.cycle_duty: ([0.5, 0.25], [1e4, 2e4], 3e4, 1, 30.0, 20.0, 6.0, 4.0, 2.0, "AISI 304"),
     resistors.resistance_at_c: (2.0, 420.0, "AISI 304"),
     resistors.rise_verdict: ([100.0, 800.0], "short time"),
     resistors.cold_hot_start: (

@@ -35,7 +35,10 @@ NAMES = sorted(udfs.__all__)
 #: formulas/dc_motor.py, start_sim.py, grading.py, worst_case.py, addin/dynamics.py, starters.py).
 #: (function, argument) -> (where and what, words every problem found holds). Such a case is an expected
 #: failure (xfail) only when each problem holds those words; any other problem still fails the test.
-KNOWN_ELSEWHERE: dict[tuple[str, str], tuple[str, str]] = {}
+KNOWN_ELSEWHERE: dict[tuple[str, str], tuple[str, str]] = {
+    # dc_motor.ShuntMotor.mechanical_time_constant_s squares a k_phi near 1e299 in floats (outside braking).
+    ("NW_CYCLE_HEATING", "motor"): ("dc_motor.py mechanical_time_constant_s", "OverflowError"),
+}
 
 #: Functions that run a start in time. start_sim.py does not yet bound a start in steps (a magnetization
 #: curve scaled by 1e6 ran over 4 minutes in NW_START_HISTORY; a 5,000-row load table takes 13 s in

@@ -114,3 +114,45 @@ def test_bad_inputs_give_messages(call, words):
 def test_rise_times_heat_capacity_returns_the_energy(energy, mass, alloy):
     rise = adiabatic_rise_k(energy, mass, alloy)
     assert rise * mass * ALLOYS[alloy].specific_heat_j_per_kg_k == pytest.approx(energy, rel=1e-12, abs=1e-9)
+
+
+# -- a duty cycle of starts and braking stops ------------------------------------------------------------
+# Checks: the r.m.s. definition I_rms² = (1/T)∫i²dt over the hour, the mean power E z / 3600, and the first
+# law of a body without losses ΔT = E/(m c) (any heat-transfer text), each written out here.
+
+
+def test_cycle_duty_against_the_definitions():
+    from notchwise.formulas.resistors import ALLOYS, braking_grid_ohm, cycle_duty
+
+    r = np.array([1.0, 0.5, 0.25])
+    i2t_start = np.array([4.0e4, 3.0e4, 2.0e4])
+    i2t_stop, z_a, z_b, mass = 5.0e4, 30.0, 20.0, 2.0
+    duty = cycle_duty(r, i2t_start, i2t_stop, 2, z_a, z_b, 3.0, 4.0, mass, "AISI 304")
+    assert braking_grid_ohm(r, 2) == pytest.approx(0.75)
+    carried_start = np.cumsum(i2t_start)  # section s is in circuit on notches 1..s
+    carried_stop = np.array([0.0, i2t_stop, i2t_stop])  # sections 2 and 3 form the braking resistor
+    assert duty.energy_start_j == pytest.approx(r * carried_start)
+    assert duty.energy_stop_j == pytest.approx(r * carried_stop)
+    assert duty.i_rms_a == pytest.approx(np.sqrt((z_a * carried_start + z_b * carried_stop) / 3600.0))
+    assert duty.power_w == pytest.approx(r * (z_a * carried_start + z_b * carried_stop) / 3600.0)
+    c = ALLOYS["AISI 304"].specific_heat_j_per_kg_k
+    assert duty.rise_k == pytest.approx(r * (carried_start + carried_stop) / (mass * c))
+
+
+@pytest.mark.parametrize("change, words", [
+    ({"brake_from": 4}, "brake_from (4) must be from 1 to 3"),
+    ({"brake_from": 0}, "brake_from (0) must be from 1 to 3"),
+    ({"stops_per_hour": 0.0}, "stops_per_hour (0 1/h) must be above zero"),
+    ({"i2t_stop_a2s": -1.0}, "must not be negative"),
+    ({"stops_per_hour": 2000.0}, "do not fit in an hour"),
+    ({"mass_kg": -1.0}, "mass"),
+])
+def test_cycle_duty_bad_inputs(change, words):
+    from notchwise.formulas.resistors import cycle_duty
+
+    arguments = dict(r_section_ohm=[1.0, 0.5, 0.25], i2t_start_a2s=[4e4, 3e4, 2e4], i2t_stop_a2s=5e4, brake_from=1,
+                     starts_per_hour=30.0, stops_per_hour=20.0, start_time_s=3.0, stop_time_s=4.0, mass_kg=2.0,
+                     alloy="AISI 304")
+    with pytest.raises((InputError, DesignError)) as caught:
+        cycle_duty(**{**arguments, **change})
+    assert words in str(caught.value)

@@ -228,7 +228,8 @@ def test_the_shaft_stays_at_rest_until_the_motor_out_pulls_the_load():
         ({"l_circuit_h": 0.0}, "l_circuit (0 H) must be above zero"),
         ({"l_circuit_h": -0.01}, "l_circuit (-0.01 H) must be above zero"),
         ({"load": 50000.0}, "the load is above the motor's capability"),
-        ({"load": -5.0}, "must not be negative"),
+        ({"load": -5e5}, "the overhauling load runs the shunt motor away"),
+        ({"load": [[0.0, 5.0], [100.0, -5e5]]}, "the overhauling load runs the shunt motor away"),
         ({"i_cut_a": 60.0}, "notch 1 stalls"),
         ({"i_cut_a": None, "dwell_s": [0.5, 0.5]}, "dwell has 2 entries but sections has 3"),
         ({"i_cut_a": None}, "give either a cut-out current"),
@@ -327,3 +328,44 @@ def test_compound_start_balances_and_tends_to_the_grading_table():
                             brush_drop_v=VB, rtol=1e-10)
     assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)  # the grading limit, as for the series motor
     assert np.all(np.abs(_balance_residuals(result, 1e-6, 5.0)) < 1e-7)
+
+
+# -- an overhauling (potential) load: the start of a lowering drive ------------------------------------
+# Independent model: the same two equations (Fitzgerald, Kingsley, Umans, Electric Machinery, 6th ed., 2003,
+# sec. 7.9, Eqs. 7.37-7.40) written out here and integrated by scipy's solve_ivp across the definite-time
+# notches, with the load driving from the first instant (no standstill rule: a gravity load acts at rest).
+
+
+@pytest.mark.parametrize("load", [-300.0, [[0.0, -300.0], [1500.0, -200.0]]])
+@pytest.mark.parametrize("method", ["auto", "integrate"])
+def test_overhauling_start_against_solve_ivp(load, method):
+    dwell, l_h, j = (0.15, 0.15, 0.15), 0.01, 5.0
+    result = simulate_start(SHUNT, V, list(TEST_SECTIONS_OHM), l_h, j, load, dwell_s=list(dwell), method=method)
+    table = load_torque(load, signed=True)
+    k_phi = SHUNT.k_phi_v_per_rpm
+    resistances = SHUNT.r_ohm + np.cumsum(TEST_SECTIONS_OHM[::-1])[::-1]
+    state = [0.0, 0.0, 0.0]
+    for k, r in enumerate(resistances):
+        def rhs(t, y, r=r):
+            return [(V - r * y[0] - k_phi * y[1]) / l_h, (C1 * k_phi * y[0] - float(table.at(y[1]))) / (j * 2.0 * math.pi / 60.0), y[0] ** 2]
+        solution = solve_ivp(rhs, (0.0, dwell[k]), [state[0], state[1], 0.0], method="Radau", rtol=1e-10, atol=1e-9)
+        state = solution.y[:, -1]
+        assert result.i_cut_a[k] == pytest.approx(state[0], rel=1e-5, abs=1e-3)
+        assert result.n_cut_rpm[k] == pytest.approx(state[1], rel=1e-5)
+        assert result.i2t_a2s[k] == pytest.approx(state[2], rel=1e-5)
+    # Steady state: the motor regenerates, T = T_L < 0, i = T_L / (C1 kΦ), n = (V - R i)/kΦ above no load.
+    t_steady = float(table.at(result.n_final_rpm))
+    assert result.i_final_a == pytest.approx(t_steady / (C1 * k_phi), rel=1e-8)
+    assert result.n_final_rpm > V / k_phi
+
+
+def test_a_series_motor_driven_by_its_load_runs_away():
+    series = SeriesMotor(0.07, magnetization_curve(*zip(*((0.0, 4.0), (100.0, 190.0), (300.0, 320.0), (600.0, 370.0))), 1000.0))
+    with pytest.raises(StartIncomplete, match="runs the series motor away") as caught:
+        simulate_start(series, V, list(TEST_SECTIONS_OHM), 0.01, 5.0, -100.0, i_cut_a=150.0)
+    assert caught.value.outcome == "runs away"
+
+
+def test_a_reactive_load_still_refuses_negative_values_where_it_must():
+    with pytest.raises(InputError, match="an overhauling load is outside this model"):
+        load_torque(-5.0)

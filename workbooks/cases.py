@@ -365,9 +365,15 @@ CAUTIONS = (
     "grid temperature.",
     "What the models leave out: armature reaction beyond what the magnetization curve holds, the heating of the "
     "windings, the grid's cooling during a start and its resistance rising within a start (held at its value at "
-    "the start of the start), elasticity and backlash of ropes and gearing, an overhauling load driving the motor "
-    "backwards, and the supply's own impedance (the supply is a fixed voltage, varied only over the worst "
+    "the start of the start), elasticity and backlash of ropes and gearing, a series motor driven by an "
+    "overhauling load (it runs away and the start says so), and the supply's own impedance (the supply is a fixed voltage, varied only over the worst "
     "case's band); in the worst case every section takes the same tolerance and temperature. The alloy data and the temperature-rise limits are "
     "from memory (see SOURCES.md); check them against the grid's own rating.",
+    "Braking and lowering: the wrong resistance can drop a load or reverse the drive. In every lowering mode "
+    "(DC dynamic, wound-rotor counter-torque and regenerative) MORE resistance means a FASTER descent; a series "
+    "field that fails to build up lets the load fall almost unbraked; a load too light to overhaul a counter-torque "
+    "connection is hoisted instead; plugging left on at standstill reverses the drive. Overspeed protection and a "
+    "mechanical brake that holds the load are needed whatever these figures say; local codes and licensed "
+    "practice prevail.",
     "The demo drives (Port of Merrow, Caldbeck Quarry) are invented; their data belong to no real machine.",
 )
