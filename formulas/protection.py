@@ -128,7 +128,12 @@ class ElementCheck:
     def verdict(self) -> str:
         """Plain words: rides through, or trips at a time."""
         if self.trip_s is None:
-            return f"rides through, {100.0 * self.margin:.0f} % short of trip"
+            if self.peak <= 0.0:
+                return "rides through, never picked up"
+            # Never round a reached element to "100 % short": name the share reached instead.
+            reached = 100.0 * self.peak
+            shown = f"{reached:.2g} %" if reached < 1.0 else f"{reached:.0f} %"
+            return f"rides through, {shown} of trip reached"
         return f"TRIPS at {quantity(self.trip_s, 's')}"
 
 

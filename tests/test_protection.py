@@ -238,3 +238,13 @@ def test_a_given_upstream_setting_is_checked_for_its_least_margin():
     graded = {f.name: f for f in coordinate_upstream(CURVES["IEC SI"], 120.0, CURVES["IEC LTI"], 100.0, 0.5, 8000.0,
                                                      multiplier_up=proposed * 1.001)}
     assert graded["least margin beyond cti, as set"].basis.startswith("grades")
+
+
+@pytest.mark.parametrize("peak, words", [(0.0, "never picked up"), (0.004, "0.4 % of trip reached"),
+                                         (0.37, "37 % of trip reached")])
+def test_a_ride_through_verdict_never_rounds_a_reached_element_away(peak, words):
+    # Issue 11: a verdict must not read "100 % short of trip" when something was reached.
+    from notchwise.formulas.protection import ElementCheck
+
+    verdict = ElementCheck("inverse time IEC SI", peak, 1.0, None, "").verdict
+    assert verdict == f"rides through, {words}"
