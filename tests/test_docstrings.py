@@ -26,17 +26,6 @@ UNIT_AT_END = re.compile(r"\[[^\[\]]+\]\.?$")
 #: protection, current_transformers, resistors). To be fixed in those docstrings after the
 #: restructuring, and then removed from here: the test fails on an entry that no longer fails.
 KNOWN_GAPS = {
-    "dc_motor.circuit_resistance_ohm: motor (not documented)",
-    "dc_motor.circuit_resistance_ohm: r_external_ohm (not documented)",
-    "dc_motor.developed_torque_nm: motor (no [unit] at the end)",
-    "dc_motor.effective_supply_v: brush_drop_v (not documented)",
-    "dc_motor.effective_supply_v: v_supply_v (not documented)",
-    "dc_motor.magnetization_curve: excitation (no [unit] at the end)",
-    "dc_motor.magnetization_curve: excitation_name (no [unit] at the end)",
-    "dc_motor.minimum_load: motor (no [unit] at the end)",
-    "dc_motor.residual_speed_rpm: motor (no [unit] at the end)",
-    "dc_motor.series_torque_nm: curve (no [unit] at the end)",
-    "dc_motor.steady_speed_rpm: motor (no [unit] at the end)",
     "grading.check_sections: motor (no [unit] at the end)",
     "grading.checked_sections: sections_ohm (not documented)",
     "grading.grade_uniform: motor (no [unit] at the end)",
