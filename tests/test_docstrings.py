@@ -26,13 +26,6 @@ UNIT_AT_END = re.compile(r"\[[^\[\]]+\]\.?$")
 #: protection, current_transformers, resistors). To be fixed in those docstrings after the
 #: restructuring, and then removed from here: the test fails on an entry that no longer fails.
 KNOWN_GAPS = {
-    "grading.check_sections: motor (no [unit] at the end)",
-    "grading.checked_sections: sections_ohm (not documented)",
-    "grading.grade_uniform: motor (no [unit] at the end)",
-    "grading.grade_uniform: notches (no [unit] at the end)",
-    "grading.notch_resistances_ohm: r_motor_ohm (not documented)",
-    "grading.notch_resistances_ohm: sections_ohm (not documented)",
-    "grading.peak_after_cut_a: motor (no [unit] at the end)",
     "protection.coordinate_upstream: curve (no [unit] at the end)",
     "protection.coordinate_upstream: curve_up (no [unit] at the end)",
     "protection.propose_settings: curve (no [unit] at the end)",
