@@ -357,8 +357,8 @@ def cold_hot_start(
         Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
     load : float, array_like or LoadTorque
         Load torque referred to the motor shaft, as for
-        :func:`notchwise.formulas.start_sim.simulate_start`: a constant [N·m]
-        or rows of (speed [rpm], torque [N·m]). [-]
+        :func:`notchwise.formulas.start_sim.simulate_start`: a constant, or
+        rows of (speed [rpm], torque). [N·m]
     alloy : str or Alloy
         Grid alloy, a name from :data:`ALLOYS`. [-]
     mass_kg : float or array_like

@@ -55,12 +55,19 @@ def load_torque(torque) -> LoadTorque:
     Parameters
     ----------
     torque : float or array_like
-        A constant torque [N·m], or rows of (speed [rpm], torque [N·m]) with
-        speeds strictly rising from 0 rpm or above.
+        A constant torque, or rows of (speed [rpm], torque) with speeds
+        strictly rising from 0 rpm or above. [N·m]
 
     Returns
     -------
     LoadTorque
+        The load, interpolated linearly between rows and held beyond the ends. [-]
+
+    Examples
+    --------
+    >>> fan = load_torque([[0.0, 50.0], [1000.0, 150.0]])
+    >>> float(fan.at(500.0)), fan.at_rest_nm, fan.constant
+    (100.0, 50.0, False)
     """
     rows = np.asarray(torque, dtype=object)
     if rows.ndim == 0 or rows.size == 1:
