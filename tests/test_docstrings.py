@@ -53,14 +53,6 @@ KNOWN_GAPS = {
     "relays.operate_progress: inverse_reset (no [unit] at the end)",
     "relays.operate_time_s: curve (no [unit] at the end)",
     "relays.reset_time_s: curve (no [unit] at the end)",
-    "worst_case.sweep_corners: alloy (no [unit] at the end)",
-    "worst_case.sweep_corners: brush_drop_v (no [unit] at the end)",
-    "worst_case.sweep_corners: dwell_s (no [unit] at the end)",
-    "worst_case.sweep_corners: i_cut_a (no [unit] at the end)",
-    "worst_case.sweep_corners: inertia_kgm2 (no [unit] at the end)",
-    "worst_case.sweep_corners: l_circuit_h (no [unit] at the end)",
-    "worst_case.sweep_corners: load (no [unit] at the end)",
-    "worst_case.sweep_corners: motor (no [unit] at the end)",
 }
 
 
