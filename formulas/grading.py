@@ -140,8 +140,8 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
     --------
     A shunt motor of 0.05 ohm on 220 V between 300 A and 150 A (invented
     figures): four notches; the sections fall geometrically by
-    :math:`I_2/I_1` [1]_, with the switching current raised to land the last
-    cut on the motor:
+    :math:`I_2/I_1` (module docstring, [1]_), with the switching current
+    raised to land the last cut on the motor:
 
     >>> from notchwise.formulas.dc_motor import ShuntMotor
     >>> grading = grade_uniform(ShuntMotor(0.05, 1.0), 220.0, 300.0, 150.0)
