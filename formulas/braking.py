@@ -170,6 +170,16 @@ def brake_resistance_ohm(mode: str, v_supply_v: float, r_armature_ohm: float, e_
        Eq. 7.8 applied to the braking loop.
     .. [2] G. K. Dubey, *Fundamentals of Electrical Drives*, 2nd ed., 2001,
        ch. 5, dynamic braking and plugging (from memory).
+
+    Examples
+    --------
+    200 V of back-EMF, a 0.1 ohm armature and 200 A allowed on a 220 V supply
+    (invented figures): :math:`200/200 - 0.1` and :math:`(220 + 200)/200 - 0.1`:
+
+    >>> round(brake_resistance_ohm("dynamic", 220.0, 0.1, 200.0, 200.0), 4)
+    0.9
+    >>> round(brake_resistance_ohm("plugging", 220.0, 0.1, 200.0, 200.0), 4)
+    2.0
     """
     chosen = choose("mode", mode, ("dynamic", "plugging"))
     v = require_positive("v_supply", v_supply_v, "V")
@@ -345,6 +355,16 @@ def lowering_speed_rpm(motor, r_external_ohm: float, lowering_torque_nm: float, 
     References
     ----------
     See the module docstring ([1]_, [3]_ Eqs. 7.7, 7.8).
+
+    Examples
+    --------
+    The shunt motor of :func:`notchwise.formulas.dc_motor.k_phi_from_rating`'s
+    example holding 150 N·m on 0.9 ohm (invented figures): the current is
+    :math:`I = 150/(9.549 \cdot 0.208)` and :math:`n = I (0.1 + 0.9)/0.208`:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> round(lowering_speed_rpm(ShuntMotor(0.1, 0.208), 0.9, 150.0), 1)
+    363.1
     """
     chosen = _mode_for(motor, mode, LOWERING_MODES, "lowering")
     if chosen in _ROTOR_LOWERING:

@@ -53,6 +53,13 @@ def ct_primary_a(i_a):
     References
     ----------
     .. [1] IEC 61869-2:2012, 5.201.
+
+    Examples
+    --------
+    >>> float(ct_primary_a(130.0))
+    150.0
+    >>> ct_primary_a([8.0, 1100.0]).tolist()
+    [10.0, 1250.0]
     """
     currents = as_magnitudes("current", i_a, "A")
     if np.any(currents < MIN_PRIMARY_A):
@@ -81,9 +88,19 @@ def ct_ratio(i_a, secondary_a: float = 1.0):
     secondary_a : float, optional
         Rated secondary current, 1 A or 5 A (5.202 of [1]). [A]
 
+    Returns
+    -------
+    float or numpy.ndarray
+        Rated primary current over rated secondary current. [-]
+
     References
     ----------
     .. [1] IEC 61869-2:2012, 5.201 and 5.202.
+
+    Examples
+    --------
+    >>> float(ct_ratio(130.0, 5.0))
+    30.0
     """
     secondary = require_positive("secondary", secondary_a, "A")
     if secondary not in SECONDARY_A:

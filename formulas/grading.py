@@ -33,7 +33,8 @@ condition.
 References
 ----------
 .. [1] M. G. Say and E. O. Taylor, *Direct Current Machines*, 2nd ed., Pitman,
-   1986, ch. on starting and speed control (graded starter, geometric law).
+   1986, chapter on starting and speed control (graded starter, geometric
+   law); chapter from memory.
 .. [2] A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, *Electric Machinery*,
    6th ed., McGraw-Hill, 2003, sec. 7.6 (series-motor characteristics).
 """
@@ -108,7 +109,7 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
     Parameters
     ----------
     motor : Machine
-        The machine (:mod:`notchwise.formulas.machines`); only its resistance and flux ratios enter.
+        The machine (:mod:`notchwise.formulas.machines`); only its resistance and flux ratios enter. [-]
     v_supply_v : float
         Supply voltage. [V]
     i_peak_a : float
@@ -117,14 +118,14 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
         Least current at which a notch may be cut out (the lower limit). [A]
     notches : int, optional
         Fixed number of notches; by default the fewest that keep the
-        switching current at or above ``i_switch_a``.
+        switching current at or above ``i_switch_a``. [-]
     brush_drop_v : float, optional
         Total brush drop. [V]
 
     Returns
     -------
     Grading
-        Sections, peak and switching currents per notch.
+        Sections, peak and switching currents per notch. [-]
 
     Raises
     ------
@@ -134,6 +135,22 @@ def grade_uniform(motor, v_supply_v, i_peak_a, i_switch_a, notches=None, brush_d
     DesignError
         No starter is needed, more than :data:`MAX_NOTCHES` would be, or the
         fixed notch count forces the switching current below ``i_switch_a``.
+
+    Examples
+    --------
+    A shunt motor of 0.05 ohm on 220 V between 300 A and 150 A (invented
+    figures): four notches; the sections fall geometrically by
+    :math:`I_2/I_1` (module docstring, [1]_), with the switching current
+    raised to land the last cut on the motor:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> grading = grade_uniform(ShuntMotor(0.05, 1.0), 220.0, 300.0, 150.0)
+    >>> grading.notches
+    4
+    >>> [round(float(r), 4) for r in grading.r_section_ohm]
+    [0.3586, 0.1832, 0.0936, 0.0478]
+    >>> round(float(grading.i_switch_a[0]), 1)
+    153.3
     """
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
     i_peak = require_positive("i_peak", i_peak_a, "A")
@@ -209,7 +226,7 @@ def peak_after_cut_a(motor, v_eff_v: float, r_before_ohm: float, r_after_ohm: fl
     Parameters
     ----------
     motor : Machine
-        The machine (:mod:`notchwise.formulas.machines`).
+        The machine (:mod:`notchwise.formulas.machines`). [-]
     v_eff_v : float
         Supply less brush drop. [V]
     r_before_ohm, r_after_ohm : float
@@ -223,6 +240,15 @@ def peak_after_cut_a(motor, v_eff_v: float, r_before_ohm: float, r_after_ohm: fl
         The current :math:`I` that solves
         :math:`V' - I R_{after} = \frac{\Phi(I)}{\Phi(I_{cut})}(V' - I_{cut} R_{before})`
         (speed continuous, inductance neglected; module docstring). [A]
+
+    Examples
+    --------
+    With constant flux (a shunt motor) the EMF holds across the cut, so
+    :math:`I = I_{cut} R_{before}/R_{after} = 150 \cdot 0.75/0.35`:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> round(peak_after_cut_a(ShuntMotor(0.05, 1.0), 220.0, 0.75, 0.35, 150.0), 1)
+    321.4
     """
     emf_v = v_eff_v - i_cut_a * r_before_ohm
     i_ceiling = v_eff_v / r_after_ohm
@@ -243,7 +269,18 @@ def peak_after_cut_a(motor, v_eff_v: float, r_before_ohm: float, r_after_ohm: fl
 
 
 def checked_sections(sections_ohm) -> np.ndarray:
-    """Section resistances as an array, each above zero, at most :data:`MAX_NOTCHES`. [ohm]"""
+    """Section resistances as an array, each above zero, at most :data:`MAX_NOTCHES`. [ohm]
+
+    Parameters
+    ----------
+    sections_ohm : array_like
+        Section resistances, as the user gives them. [ohm]
+
+    Returns
+    -------
+    numpy.ndarray
+        The sections as floats. [ohm]
+    """
     sections = as_float_array("sections", sections_ohm, "ohm")
     if sections.size > MAX_NOTCHES:
         raise InputError(f"sections has {sections.size} entries; at most {MAX_NOTCHES} are accepted")
@@ -254,7 +291,25 @@ def checked_sections(sections_ohm) -> np.ndarray:
 
 
 def notch_resistances_ohm(r_motor_ohm: float, sections_ohm) -> np.ndarray:
-    """Whole circuit resistance on notches 1..N and on the run (N+1 values). [ohm]"""
+    """Whole circuit resistance on notches 1..N and on the run (N+1 values). [ohm]
+
+    Parameters
+    ----------
+    r_motor_ohm : float
+        Resistance of the motor's own circuit. [ohm]
+    sections_ohm : array_like
+        Section resistances in the order they are cut out. [ohm]
+
+    Returns
+    -------
+    numpy.ndarray
+        Total resistance on each notch, then the motor alone on the run. [ohm]
+
+    Examples
+    --------
+    >>> [round(float(r), 4) for r in notch_resistances_ohm(0.05, [0.4, 0.2, 0.1])]
+    [0.75, 0.35, 0.15, 0.05]
+    """
     sections = np.asarray(sections_ohm, dtype=float)
     return r_motor_ohm + np.concatenate((np.cumsum(sections[::-1])[::-1], [0.0]))
 
@@ -304,7 +359,7 @@ def check_sections(
     Parameters
     ----------
     motor : Machine
-        The machine (:mod:`notchwise.formulas.machines`).
+        The machine (:mod:`notchwise.formulas.machines`). [-]
     v_supply_v : float
         Supply voltage. [V]
     sections_ohm : array_like
@@ -321,6 +376,20 @@ def check_sections(
     Returns
     -------
     SectionCheck
+        Resistance, currents and verdict per step. [-]
+
+    Examples
+    --------
+    Three sections on the shunt motor of :func:`grade_uniform`'s example
+    (invented figures): the standstill current is :math:`220/0.75` A, and every
+    later peak breaks the 300 A limit:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> check = check_sections(ShuntMotor(0.05, 1.0), 220.0, [0.4, 0.2, 0.1], 150.0, 300.0, 400.0)
+    >>> [round(float(i), 1) for i in check.i_peak_a]
+    [293.3, 321.4, 350.0, 450.0]
+    >>> check.passes, check.verdict[0]
+    (False, 'ok')
     """
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
     sections = checked_sections(sections_ohm)

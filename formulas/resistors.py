@@ -110,9 +110,8 @@ ALLOYS = {
 }
 
 #: Temperature-rise limits of power resistors after IEEE Std 32-1972 (neutral grounding resistors):
-#: short-time rating (10 s and 60 s) 760 K, extended-time 610 K, continuous 385 K. Recalled; a resistor
-#: maker's published summary of IEEE Std 32-1972 gives the same three figures, the standard itself was
-#: not checked: from memory.
+#: short-time rating (10 s and 60 s) 760 K, extended-time 610 K, continuous 385 K. Recalled, the
+#: standard itself was not checked: from memory.
 #: Used as defaults for a check; a starter resistor's own standard or maker's rating prevails.
 TEMPERATURE_RISE_LIMITS_K = {"short time": 760.0, "extended": 610.0, "continuous": 385.0}
 
@@ -131,6 +130,15 @@ def section_energy_j(r_section_ohm, i2t_a2s) -> np.ndarray:
     -------
     numpy.ndarray
         :math:`E_s = R_s \sum_{k\le s} \int i^2 dt`. [J]
+
+    Examples
+    --------
+    Three sections and the :math:`\int i^2 dt` of three notches (invented
+    figures): the first section is in circuit on notch 1 only, the last on all
+    three, :math:`0.1 \cdot (1000 + 500 + 250)`:
+
+    >>> [round(float(e), 1) for e in section_energy_j([0.4, 0.2, 0.1], [1000.0, 500.0, 250.0])]
+    [400.0, 300.0, 175.0]
     """
     r = as_float_array("r_section", r_section_ohm, "ohm")
     i2t = as_float_array("i2t", i2t_a2s, "A²·s")
@@ -173,10 +181,20 @@ def section_duty(r_section_ohm, i2t_a2s, starts_per_hour: float, start_time_s: f
     Returns
     -------
     SectionDuty
+        Energy per start, r.m.s. current and mean power of each section. [-]
 
     Notes
     -----
     .. math:: I_{rms} = \sqrt{\frac{z}{3600}\sum_{k\le s}\int i^2 dt}, \qquad P = \frac{z}{3600} E_s
+
+    Examples
+    --------
+    The sections of :func:`section_energy_j`'s example at 36 starts of 5 s an
+    hour: :math:`P = 0.01 E_s`, :math:`I_{rms} = \sqrt{0.01 \cdot 1000}` for the first:
+
+    >>> duty = section_duty([0.4, 0.2, 0.1], [1000.0, 500.0, 250.0], 36.0, 5.0)
+    >>> [round(float(p), 2) for p in duty.power_w], round(float(duty.i_rms_a[0]), 3)
+    ([4.0, 3.0, 1.75], 3.162)
     """
     z = require_positive("starts_per_hour", starts_per_hour, "1/h")
     duration = require_positive("start time", start_time_s, "s")
@@ -204,7 +222,7 @@ def adiabatic_rise_k(energy_j, mass_kg, alloy):
     mass_kg : float or array_like
         Mass of the resistive element, above zero. [kg]
     alloy : str or Alloy
-        A name from :data:`ALLOYS` or an :class:`Alloy`.
+        A name from :data:`ALLOYS` or an :class:`Alloy`. [-]
 
     Returns
     -------
@@ -213,7 +231,18 @@ def adiabatic_rise_k(energy_j, mass_kg, alloy):
 
     References
     ----------
-    .. [1] Any heat-transfer text, the first law for a closed body without losses.
+    .. [1] F. P. Incropera, D. P. DeWitt, T. L. Bergman, A. S. Lavine,
+       *Fundamentals of Heat and Mass Transfer*, 6th ed., Wiley, 2007, ch. 5,
+       the lumped capacitance method (energy balance of a body at one
+       temperature), here with no heat lost to the surroundings; section
+       numbers from memory.
+
+    Examples
+    --------
+    50 kJ into 2 kg of stainless steel of 500 J/(kg·K) (invented figures):
+
+    >>> round(float(adiabatic_rise_k(50000.0, 2.0, "AISI 304")), 1)
+    50.0
     """
     c = _alloy(alloy).specific_heat_j_per_kg_k
     as_float_array("energy", energy_j, "J"), as_float_array("mass", mass_kg, "kg")  # finite numbers, by name
@@ -235,12 +264,19 @@ def resistance_at_c(r20_ohm, temperature_c, alloy):
     temperature_c : float or array_like
         Element temperature, from -60 °C up. [°C]
     alloy : str or Alloy
-        A name from :data:`ALLOYS` or an :class:`Alloy`.
+        A name from :data:`ALLOYS` or an :class:`Alloy`. [-]
 
     Returns
     -------
     float or numpy.ndarray
         :math:`R = R_{20}[1 + \alpha(\theta - 20)]`. [ohm]
+
+    Examples
+    --------
+    A 2 ohm copper-nickel section at 320 °C, :math:`2 (1 + 0.00002 \cdot 300)`:
+
+    >>> round(float(resistance_at_c(2.0, 320.0, "CuNi 44")), 4)
+    2.012
     """
     alpha = _alloy(alloy).alpha_per_k
     as_float_array("r20", r20_ohm, "ohm"), as_float_array("temperature", temperature_c, "°C")  # finite numbers, by name
@@ -253,7 +289,26 @@ def resistance_at_c(r20_ohm, temperature_c, alloy):
 
 
 def rise_verdict(rise_k, limit: str = "short time") -> tuple:
-    """``ok`` or the excess, per section, against a limit of :data:`TEMPERATURE_RISE_LIMITS_K`."""
+    """``ok`` or the excess, per section, against a limit of :data:`TEMPERATURE_RISE_LIMITS_K`.
+
+    Parameters
+    ----------
+    rise_k : float or array_like
+        Temperature rise of each section, at or above zero. [K]
+    limit : str, optional
+        Which limit of :data:`TEMPERATURE_RISE_LIMITS_K`: ``"short time"``,
+        ``"extended"`` or ``"continuous"``. [-]
+
+    Returns
+    -------
+    tuple of str
+        ``ok`` or the limit broken, per section. [-]
+
+    Examples
+    --------
+    >>> rise_verdict([300.0, 800.0])
+    ('ok', 'rise over the short time limit (760 K, IEEE Std 32, from memory)')
+    """
     limit_k = TEMPERATURE_RISE_LIMITS_K[choose("limit", limit, tuple(TEMPERATURE_RISE_LIMITS_K))]
     rises = as_float_array("temperature rise", rise_k, "K")
     require_non_negative("temperature rise", float(rises.min()), "K")
@@ -295,12 +350,22 @@ def cold_hot_start(
 
     Parameters
     ----------
-    motor, v_supply_v, l_circuit_h, inertia_kgm2, load, i_cut_a, dwell_s, brush_drop_v
-        As for :func:`formulas.start_sim.simulate_start`.
+    motor : Machine
+        The machine, as for :func:`notchwise.formulas.start_sim.simulate_start`. [-]
+    v_supply_v : float
+        Supply voltage. [V]
     sections_20c_ohm : array_like
         Section resistances at 20 °C, in the order they are cut out. [ohm]
+    l_circuit_h : float
+        Inductance of the armature circuit, above zero. [H]
+    inertia_kgm2 : float
+        Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
+    load : float, array_like or LoadTorque
+        Load torque referred to the motor shaft, as for
+        :func:`notchwise.formulas.start_sim.simulate_start`: a constant, or
+        rows of (speed [rpm], torque). [N·m]
     alloy : str or Alloy
-        Grid alloy, a name from :data:`ALLOYS`.
+        Grid alloy, a name from :data:`ALLOYS`. [-]
     mass_kg : float or array_like
         Mass of resistive element of each section (one value for all, or one per section). [kg]
     ambient_c : float
@@ -308,10 +373,17 @@ def cold_hot_start(
     hot_c : float, optional
         Temperature of the hot grid; by default each section's ambient plus
         its adiabatic rise in the cold start (the second of two starts in a row). [°C]
+    i_cut_a : float, optional
+        Cut-out current of current-limit switching. [A]
+    dwell_s : array_like, optional
+        Dwell of each notch for definite-time switching, one per section. [s]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
 
     Returns
     -------
     ColdHotStart
+        Both starts, the rises, the hot temperatures and the resistances. [-]
 
     Notes
     -----

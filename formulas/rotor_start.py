@@ -211,6 +211,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     Returns
     -------
     RotorStart
+        Currents, speeds, times and energies per step, and the run. [-]
 
     Notes
     -----
@@ -225,6 +226,21 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     DesignError
         Standstill torque at or below the load, a step that stalls, or a cut
         after which the motor would slow down.
+
+    Examples
+    --------
+    The motor and grading of
+    :func:`notchwise.formulas.induction_motor.grade_rotor`'s example against
+    2000 N·m, each step cut at 250 A rotor current (invented figures):
+
+    >>> from notchwise.formulas.induction_motor import WoundRotorMotor, grade_rotor
+    >>> motor = WoundRotorMotor(0.02, 0.12, 4.0, 0.025, 0.13, 690.0, 50.0, 6, 750.0, 60.0)
+    >>> sections = grade_rotor(motor, 6000.0, 3000.0).r_section_ohm
+    >>> start = simulate_rotor_start(motor, sections, 2000.0, i_cut_a=250.0)
+    >>> [round(float(i)) for i in start.i_peak_a]
+    [542, 509, 509, 509]
+    >>> round(float(start.t_accel_s), 2), round(float(start.n_final_rpm), 1)
+    (2.71, 988.0)
     """
     sections = rotor_sections(sections_ohm)
     torque_load = load_torque(load)

@@ -37,7 +37,37 @@ _GRID_STEPS = np.linspace(0.0, 1.0, 240)
 
 
 def held_phase(notch, v_eff, r, l_h, i_break, i_cut, t_left):
-    """Shaft at rest: closed-form first-order current. Returns True if the notch ended here."""
+    r"""Shaft at rest: closed-form first-order current. Returns True if the notch ended here.
+
+    Parameters
+    ----------
+    notch : NotchRecord
+        The notch at its present state (:mod:`notchwise.formulas.start_notch`);
+        the stretch at rest is added to it. [-]
+    v_eff : float
+        Supply less brush drop. [V]
+    r : float
+        Whole circuit resistance on the notch, machine included. [ohm]
+    l_h : float
+        Inductance of the circuit. [H]
+    i_break : float
+        Breakaway current, at which the motor torque first exceeds the load at
+        rest; ``inf`` where it never does. [A]
+    i_cut : float or None
+        Cut-out current; None on definite time and on the run. [A]
+    t_left : float
+        Time left on a definite-time notch; ``inf`` otherwise. [s]
+
+    Returns
+    -------
+    bool
+        True when the notch ended at rest (cut or dwell over); False at
+        breakaway, where motion begins. [-]
+
+    Notes
+    -----
+    .. math:: i(t) = I_\infty + (i_0 - I_\infty)e^{-tR/L}, \qquad I_\infty = V'/R
+    """
     tau = l_h / r
     i_inf = v_eff / r
     i0 = notch.i
@@ -170,7 +200,37 @@ class LinearShunt:
 
 
 def linear_running_phase(notch, lin, i_cut, t_left, final_speed=None):
-    """Advance a notch to its end on the closed form; False (nothing added) asks for the integrator."""
+    r"""Advance a notch to its end on the closed form; False (nothing added) asks for the integrator.
+
+    Parameters
+    ----------
+    notch : NotchRecord
+        The notch at its present state (:mod:`notchwise.formulas.start_notch`);
+        the stretch is added to it. [-]
+    lin : LinearShunt
+        The closed form of the notch, from its present state. [-]
+    i_cut : float or None
+        Cut-out current; None on definite time and on the run. [A]
+    t_left : float
+        Time left on a definite-time notch; ``inf`` otherwise. [s]
+    final_speed : float, optional
+        On the run after the last cut: the steady speed it settles towards. [rpm]
+
+    Returns
+    -------
+    bool
+        True when the notch ended on the closed form; False where the shaft
+        would come back to rest or the end is not reached, and the integrator
+        takes over. [-]
+
+    Notes
+    -----
+    .. math:: x(t) = x_\infty + e^{At}(x_0 - x_\infty), \qquad x = (i, n)
+
+    References
+    ----------
+    See the module docstring.
+    """
     horizon = min(t_left, TIME_CAP_FACTOR * lin.t_slow)
     times = lin.grid(horizon)
     currents, speeds = lin.state(times)

@@ -35,7 +35,16 @@ __all__ = ["breakaway_current_a", "advance_dc_notch"]
 
 
 def breakaway_current_a(machine, t_rest_nm: float, i_top_a: float) -> float:
-    """Current at which the motor torque first equals the load at rest ``t_rest_nm`` [N·m].
+    r"""Current at which the motor torque first equals the load at rest ``t_rest_nm`` [N·m].
+
+    Parameters
+    ----------
+    machine : ShuntMotor, SeriesMotor or CompoundMotor
+        The machine, for its torque at a current. [-]
+    t_rest_nm : float
+        Load torque at 0 rpm, the reaction to overcome. [N·m]
+    i_top_a : float
+        Highest current searched, e.g. the standstill current of the notch. [A]
 
     Returns
     -------
@@ -43,6 +52,15 @@ def breakaway_current_a(machine, t_rest_nm: float, i_top_a: float) -> float:
         0 A for no load at rest; ``inf`` where the torque stays at or below
         it up to ``i_top_a`` (or the end of the machine's data). By Brent's
         method [2]_. [A]
+
+    Examples
+    --------
+    A shunt motor's torque is :math:`(60/2\pi) k\Phi I`, so it breaks away from
+    150 N·m at :math:`150/(9.549 \cdot 0.208)` A:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> round(breakaway_current_a(ShuntMotor(0.1, 0.208), 150.0, 2000.0), 2)
+    75.52
     """
     if t_rest_nm <= 0.0:
         return 0.0
@@ -58,11 +76,11 @@ def advance_dc_notch(machine, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_
     Parameters
     ----------
     machine : ShuntMotor, SeriesMotor or CompoundMotor
-        The machine; ``flux_constant`` machines take the closed form against a constant load.
+        The machine; ``flux_constant`` machines take the closed form against a constant load. [-]
     notch : NotchRecord
-        The notch at its start; filled in place.
+        The notch at its start; filled in place. [-]
     circuit : NotchCircuit
-        The notch's circuit and shaft.
+        The notch's circuit and shaft. [-]
     i_cut_a : float or None
         Cut-out current; None on definite time and on the run. [A]
     t_left_s : float

@@ -44,11 +44,11 @@ def integrated_running_phase(notch, k_phi, circuit, i_cut, t_left, t_cap, final_
     Parameters
     ----------
     notch : NotchRecord
-        The notch, at its present state; the stretch is added to it.
+        The notch, at its present state; the stretch is added to it. [-]
     k_phi : callable
         Back-EMF per rpm at a current, :math:`k\\Phi(i)`. [V/rpm]
     circuit : NotchCircuit
-        Supply, resistance, inductance, inertia, load and tolerance of the notch.
+        Supply, resistance, inductance, inertia, load and tolerance of the notch. [-]
     i_cut : float or None
         Cut-out current; None on definite time and on the run. [A]
     t_left : float

@@ -80,6 +80,13 @@ def load_torque(torque, signed: bool = False) -> LoadTorque:
     Returns
     -------
     LoadTorque
+        The load, interpolated linearly between rows and held beyond the ends. [-]
+
+    Examples
+    --------
+    >>> fan = load_torque([[0.0, 50.0], [1000.0, 150.0]])
+    >>> float(fan.at(500.0)), fan.at_rest_nm, fan.constant
+    (100.0, 50.0, False)
     """
     if isinstance(torque, LoadTorque):
         if torque.potential and not signed:

@@ -64,6 +64,18 @@ def voltage_dip(v_line_v, fault_level_mva, x_over_r, current_a, power_factor):
     .. math:: \text{dip} = 1 - \left|\frac{Z_m}{Z_s + Z_m}\right| = 1 - \frac{1}{|1 + Z_s Y_m|}
 
     (module docstring, [1]_ ch. 9).
+
+    Examples
+    --------
+    1500 A at power factor 0.3 from a 690 V, 25 MVA bus (invented figures).
+    With the source's X/R equal to the motor's, :math:`\sqrt{1 - 0.3^2}/0.3`,
+    the dip is the kVA ratio :math:`S_m/(S_m + S_{sc})` of [2]_,
+    :math:`S_m = \sqrt3 \cdot 690 \cdot 1500` VA:
+
+    >>> round(voltage_dip(690.0, 25.0, (1.0 - 0.3**2) ** 0.5 / 0.3, 1500.0, 0.3), 4)
+    0.0669
+    >>> round(voltage_dip(690.0, 25.0, 8.0, 1500.0, 0.3), 4)
+    0.066
     """
     v = require_positive("v_line", v_line_v, "V")
     s_sc = require_positive("fault_level", fault_level_mva, "MVA") * 1e6

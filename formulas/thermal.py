@@ -81,14 +81,47 @@ class ThermalElement:
 
 
 def thermal_element(i_base_a: float, k_factor: float, tau_s: float) -> ThermalElement:
-    """Validate the settings of a thermal element (each above zero)."""
+    r"""Validate the settings of a thermal element (each above zero).
+
+    Parameters
+    ----------
+    i_base_a : float
+        Basic current :math:`I_B`, usually the motor's full-load current. [A]
+    k_factor : float
+        :math:`k`: the element carries :math:`k I_B` for ever without tripping. [-]
+    tau_s : float
+        Heating time constant :math:`\tau`. [s]
+
+    Returns
+    -------
+    ThermalElement
+        The checked settings. [-]
+
+    Examples
+    --------
+    >>> thermal_element(100.0, 1.05, 600.0).i_trip_a
+    105.0
+    """
     return ThermalElement(
         require_positive("i_base", i_base_a, "A"), require_positive("k_factor", k_factor), require_positive("tau", tau_s, "s")
     )
 
 
 def checked_element(element, name: str = "element") -> ThermalElement:
-    """``element`` if it is a :class:`ThermalElement` (:func:`thermal_element`), else a message naming ``name``."""
+    """``element`` if it is a :class:`ThermalElement` (:func:`thermal_element`), else a message naming ``name``.
+
+    Parameters
+    ----------
+    element : object
+        The object checked. [-]
+    name : str, optional
+        Argument name used in the message. [-]
+
+    Returns
+    -------
+    ThermalElement
+        The element, unchanged. [-]
+    """
     return require_kind(name, element, ThermalElement, "a thermal element (made by thermal_element)")
 
 
@@ -108,7 +141,7 @@ def thermal_trip_time_s(element: ThermalElement, i_a, i_prior_a: float = 0.0):
     Parameters
     ----------
     element : ThermalElement
-        The settings (:func:`thermal_element`).
+        The settings (:func:`thermal_element`). [-]
     i_a : float or array_like
         Current magnitude, held constant. [A]
     i_prior_a : float, optional
@@ -128,6 +161,17 @@ def thermal_trip_time_s(element: ThermalElement, i_a, i_prior_a: float = 0.0):
     References
     ----------
     .. [1] IEC 60255-149:2013, operate-time equation (cold: :math:`I_P = 0`; hot).
+
+    Examples
+    --------
+    Twice :math:`k I_B` from cold, :math:`t = 600 \ln(210^2/(210^2 - 105^2))`
+    (invented settings):
+
+    >>> element = thermal_element(100.0, 1.05, 600.0)
+    >>> round(float(thermal_trip_time_s(element, 210.0)), 1)
+    172.6
+    >>> round(float(thermal_trip_time_s(element, 210.0, i_prior_a=80.0)), 1)  # hot
+    78.5
     """
     element = checked_element(element)
     currents = as_magnitudes("current", i_a, "A")
@@ -145,7 +189,7 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     Parameters
     ----------
     element : ThermalElement
-        The settings.
+        The settings (:func:`thermal_element`). [-]
     t_s : array_like
         Sample times, not falling. [s]
     i_a : array_like
@@ -156,7 +200,7 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     Returns
     -------
     Progress
-        ``fraction`` is the thermal level at each sample; 1 trips.
+        ``fraction`` is the thermal level at each sample; 1 trips. [-]
 
     Notes
     -----
@@ -169,6 +213,15 @@ def thermal_state(element: ThermalElement, t_s, i_a, i_prior_a: float = 0.0) -> 
     References
     ----------
     .. [1] IEC 60255-149:2013, thermal model of the element.
+
+    Examples
+    --------
+    The element of :func:`thermal_trip_time_s`'s example held at 210 A: after
+    60 s the level is :math:`4(1 - e^{-0.1})`, and it trips at the operate time:
+
+    >>> progress = thermal_state(thermal_element(100.0, 1.05, 600.0), [0.0, 60.0, 240.0], [210.0, 210.0, 210.0])
+    >>> round(float(progress.fraction[1]), 4), round(progress.trip_s, 1)
+    (0.3807, 172.6)
     """
     element = checked_element(element)
     t, currents = current_history(t_s, i_a)

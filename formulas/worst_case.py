@@ -139,31 +139,63 @@ def sweep_corners(
 
     Parameters
     ----------
-    motor, l_circuit_h, inertia_kgm2, load, i_cut_a, dwell_s, brush_drop_v
-        As for :func:`formulas.start_sim.simulate_start`.
+    motor : Machine
+        The machine, as for :func:`notchwise.formulas.start_sim.simulate_start`. [-]
     v_supply_v : float
         Nominal supply voltage. [V]
     sections_20c_ohm : array_like
         Sections at 20 °C, in the order they are cut out. [ohm]
+    l_circuit_h : float
+        Inductance of the armature circuit, above zero. [H]
+    inertia_kgm2 : float
+        Inertia of motor and load referred to the motor shaft, above zero. [kg·m²]
+    load : float, array_like or LoadTorque
+        Load torque referred to the motor shaft, as for
+        :func:`notchwise.formulas.start_sim.simulate_start`: a constant, or
+        rows of (speed [rpm], torque). [N·m]
     v_low, v_high : float
         Supply band as fractions of nominal, e.g. -0.1 and +0.1. [-]
     tolerance : float
         Resistance tolerance, a fraction from 0 to 0.5; swept from -tolerance to +tolerance. [-]
     alloy : str or Alloy
-        Grid alloy, for the temperature coefficient.
+        Grid alloy, for the temperature coefficient: a name from
+        :data:`notchwise.formulas.resistors.ALLOYS` or an ``Alloy``. [-]
     ambient_c, hot_c : float
         Coldest and hottest grid temperature. [°C]
     points : tuple of 3 int
         Values per axis (supply, tolerance, temperature), each 1 to 100; one
         value is the middle of that range. [-]
+    i_cut_a : float, optional
+        Cut-out current of current-limit switching. [A]
+    dwell_s : array_like, optional
+        Dwell of each notch for definite-time switching, one per section. [s]
+    brush_drop_v : float, optional
+        Total brush drop. [V]
 
     Returns
     -------
     WorstCase
+        Every corner with its status, peak and margin, and the worst ones. [-]
 
     Notes
     -----
     .. math:: R_s = R_{s,20}(1 + \tau)[1 + \alpha(\theta - 20)]
+
+    Examples
+    --------
+    The start of :func:`notchwise.formulas.start_sim.simulate_start`'s example
+    at 10 % below and above its 220 V supply, the grid at 20 °C and on its
+    nominal values (invented figures): both corners run, the high supply gives
+    the highest peak:
+
+    >>> from notchwise.formulas.dc_motor import ShuntMotor
+    >>> from notchwise.formulas.grading import grade_uniform
+    >>> motor = ShuntMotor(0.1, 0.208)
+    >>> sections = grade_uniform(motor, 220.0, 200.0, 100.0, brush_drop_v=2.0).r_section_ohm
+    >>> sweep = sweep_corners(motor, 220.0, sections, 0.01, 2.0, 150.0, points=(2, 1, 1),
+    ...                       i_cut_a=110.0, brush_drop_v=2.0)
+    >>> sweep.status, [round(float(i)) for i in sweep.i_peak_a], sweep.worst_peak
+    (('ran', 'ran'), [185, 213], 1)
     """
     sections = checked_sections(sections_20c_ohm)
     low, high = as_float("v_low", v_low), as_float("v_high", v_high)

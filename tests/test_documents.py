@@ -46,8 +46,7 @@ def _first_name(reference: str) -> str:
 @pytest.mark.parametrize("path", sorted((REPOSITORY / "formulas").glob("*.py")), ids=lambda p: p.name)
 def test_every_reference_of_the_core_is_in_the_list_of_sources(path):
     missing = [ref for ref in _references(path) if not ref.startswith("See the module")
-               and _first_name(ref) not in SOURCES
-               and "heat-transfer text" not in ref]  # vague in resistors.py; SOURCES.md says what it stands for
+               and _first_name(ref) not in SOURCES]
     assert missing == []
 
 
