@@ -152,11 +152,12 @@ def ride_through(
 
     Parameters
     ----------
-    t_s, i_a : array_like
-        The start: sample times [s], not falling, and current magnitudes [A];
-        each current is held until the next sample.
+    t_s : array_like
+        The start's sample times, not falling. [s]
+    i_a : array_like
+        The start's current magnitudes; each is held until the next sample. [A]
     curve : Curve
-        Characteristic of the inverse-time element.
+        Characteristic of the inverse-time element. [-]
     pickup_a : float
         Its pickup. [A]
     multiplier : float
@@ -166,7 +167,7 @@ def ride_through(
     highset_delay_s : float, optional
         Its definite-time delay; 0 for an instantaneous element. [s]
     thermal : ThermalElement, optional
-        A thermal element; None for none.
+        A thermal element; None for none. [-]
     i_prior_a : float, optional
         Steady load before the start for the thermal element; 0 for cold. [A]
 
@@ -253,7 +254,7 @@ def propose_settings(
     t_s, i_a : array_like
         The start: sample times [s] and current magnitudes [A].
     curve : Curve
-        Characteristic of the inverse-time element.
+        Characteristic of the inverse-time element. [-]
     i_full_load_a : float
         Motor's full-load (rated) current. [A]
     i_stall_a : float

@@ -146,6 +146,13 @@ def curve_named(name: str | Curve, argument: str = "curve") -> Curve:
     """The curve ``name`` names (``IEC SI``, ``IEC A``, ``IEEE VI``, ...), or a message naming ``argument`` and listing them.
 
     A :class:`Curve` is returned as it is, so every function taking a curve checks it with this one call.
+
+    Parameters
+    ----------
+    name : str or Curve
+        Curve name, any case, or a curve already chosen. [-]
+    argument : str, optional
+        Argument name used in the message. [-]
     """
     if isinstance(name, Curve):
         return name
@@ -158,7 +165,15 @@ def _currents(i_a) -> np.ndarray:
 
 
 def current_history(t_s, i_a) -> tuple[np.ndarray, np.ndarray]:
-    """Sample times [s], not falling, and current magnitudes [A] of a history, checked."""
+    """Sample times [s], not falling, and current magnitudes [A] of a history, checked.
+
+    Parameters
+    ----------
+    t_s : array_like
+        Sample times, not falling. [s]
+    i_a : array_like
+        Current magnitude at each sample. [A]
+    """
     t, currents = as_time_series("history", t_s, i_a, "A", "current")
     return t, as_magnitudes("history current", currents, "A")
 
@@ -176,7 +191,13 @@ def _settings(pickup_a, multiplier):
 
 
 def checked_flat_from(flat_from) -> float:
-    """``flat_from`` checked: a multiple of pickup above 1 and at most :data:`FLAT_FROM_LIMIT`. [-]"""
+    """``flat_from`` checked: a multiple of pickup above 1 and at most :data:`FLAT_FROM_LIMIT`. [-]
+
+    Parameters
+    ----------
+    flat_from : float
+        Multiple of pickup beyond which the curve is held flat. [-]
+    """
     value = as_float("flat_from", flat_from)
     if not 1.0 < value <= FLAT_FROM_LIMIT:
         raise InputError(f"flat_from ({shown(value)}) must be above 1 and at most {FLAT_FROM_LIMIT:g} times pickup")
@@ -196,7 +217,7 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float, flat_f
     Parameters
     ----------
     curve : Curve
-        The characteristic (:func:`curve_named`).
+        The characteristic (:func:`curve_named`). [-]
     i_a : float or array_like
         Current magnitude. [A]
     pickup_a : float
@@ -250,7 +271,7 @@ def multiplier_for_time(curve: Curve, i_a: float, pickup_a: float, t_s: float, f
     Parameters
     ----------
     curve : Curve
-        The characteristic.
+        The characteristic. [-]
     i_a : float
         Current, above pickup. [A]
     pickup_a : float
@@ -281,7 +302,7 @@ def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: fl
     Parameters
     ----------
     curve : Curve
-        The characteristic.
+        The characteristic. [-]
     t_s : float
         Operating time. [s]
     pickup_a : float
@@ -329,7 +350,7 @@ def reset_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
     Parameters
     ----------
     curve : Curve
-        An IEEE curve (the IEC curves define no inverse reset).
+        An IEEE curve (the IEC curves define no inverse reset). [-]
     i_a : float or array_like
         Current magnitude below pickup. [A]
     pickup_a : float
@@ -364,6 +385,15 @@ def definite_time_s(i_a, pickup_a: float, delay_s: float):
     """Operating time of a definite-time element: ``delay_s`` above pickup, ``inf`` at or below. [s]
 
     A delay of 0 s is an instantaneous element (its own operating time aside).
+
+    Parameters
+    ----------
+    i_a : float or array_like
+        Current magnitude. [A]
+    pickup_a : float
+        Pickup current. [A]
+    delay_s : float
+        Definite-time delay, 0 or more. [s]
     """
     currents = _currents(i_a)
     pickup = require_positive("pickup", pickup_a, "A")
@@ -434,7 +464,7 @@ def operate_progress(
     Parameters
     ----------
     curve : Curve
-        The characteristic.
+        The characteristic. [-]
     t_s : array_like
         Sample times, not falling. [s]
     i_a : array_like
@@ -489,7 +519,19 @@ def operate_progress(
 
 
 def definite_progress(t_s, i_a, pickup_a: float, delay_s: float) -> Progress:
-    """Operate progress of a definite-time element (delay above zero), resetting at once below pickup."""
+    """Operate progress of a definite-time element (delay above zero), resetting at once below pickup.
+
+    Parameters
+    ----------
+    t_s : array_like
+        Sample times, not falling. [s]
+    i_a : array_like
+        Current magnitude at each sample. [A]
+    pickup_a : float
+        Pickup current. [A]
+    delay_s : float
+        Definite-time delay, above zero. [s]
+    """
     t, currents = current_history(t_s, i_a)
     pickup = require_positive("pickup", pickup_a, "A")
     delay = require_positive("delay", delay_s, "s")
@@ -498,7 +540,17 @@ def definite_progress(t_s, i_a, pickup_a: float, delay_s: float) -> Progress:
 
 
 def instantaneous_progress(t_s, i_a, pickup_a: float) -> Progress:
-    """Current over pickup at each sample of an instantaneous element; it trips at the first sample above 1."""
+    """Current over pickup at each sample of an instantaneous element; it trips at the first sample above 1.
+
+    Parameters
+    ----------
+    t_s : array_like
+        Sample times, not falling. [s]
+    i_a : array_like
+        Current magnitude at each sample. [A]
+    pickup_a : float
+        Pickup current. [A]
+    """
     t, currents = current_history(t_s, i_a)
     ratio = currents / require_positive("pickup", pickup_a, "A")
     over = np.nonzero(ratio > 1.0)[0]

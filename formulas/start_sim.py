@@ -206,7 +206,7 @@ def settling_current_a(motor: Machine, v_eff_v: float, r_ohm: float, load: LoadT
         Whole circuit resistance, machine included. [ohm]
     load : LoadTorque
         Load torque against speed; a potential (driving) load is held by a
-        reversed current where the machine's torque reverses with it.
+        reversed current where the machine's torque reverses with it. [N·m]
 
     Returns
     -------

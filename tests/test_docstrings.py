@@ -21,37 +21,6 @@ MODULES = [importlib.import_module(f"notchwise.formulas.{info.name}")
            for info in pkgutil.iter_modules(notchwise.formulas.__path__)]
 UNIT_AT_END = re.compile(r"\[[^\[\]]+\]\.?$")
 
-#: Parameters that break the rule today, in the two modules that other work is changing (relays,
-#: protection). To be fixed in those docstrings, and then removed from here: the test fails on an
-#: entry that no longer fails.
-KNOWN_GAPS = {
-    "protection.propose_settings: curve (no [unit] at the end)",
-    "protection.ride_through: curve (no [unit] at the end)",
-    "protection.ride_through: i_a (no [unit] at the end)",
-    "protection.ride_through: t_s (no [unit] at the end)",
-    "protection.ride_through: thermal (no [unit] at the end)",
-    "relays.checked_flat_from: flat_from (not documented)",
-    "relays.current_for_time_a: curve (no [unit] at the end)",
-    "relays.current_history: i_a (not documented)",
-    "relays.current_history: t_s (not documented)",
-    "relays.curve_named: argument (not documented)",
-    "relays.curve_named: name (not documented)",
-    "relays.definite_progress: delay_s (not documented)",
-    "relays.definite_progress: i_a (not documented)",
-    "relays.definite_progress: pickup_a (not documented)",
-    "relays.definite_progress: t_s (not documented)",
-    "relays.definite_time_s: delay_s (not documented)",
-    "relays.definite_time_s: i_a (not documented)",
-    "relays.definite_time_s: pickup_a (not documented)",
-    "relays.instantaneous_progress: i_a (not documented)",
-    "relays.instantaneous_progress: pickup_a (not documented)",
-    "relays.instantaneous_progress: t_s (not documented)",
-    "relays.multiplier_for_time: curve (no [unit] at the end)",
-    "relays.operate_progress: curve (no [unit] at the end)",
-    "relays.operate_time_s: curve (no [unit] at the end)",
-    "relays.reset_time_s: curve (no [unit] at the end)",
-    "start_sim.settling_current_a: load (no [unit] at the end)",
-}
 
 
 def _public_functions():
@@ -131,11 +100,7 @@ def test_every_public_core_function_is_found():
 
 def test_every_parameter_of_every_public_core_function_has_its_unit():
     gaps = all_gaps()
-    assert sorted(gaps - KNOWN_GAPS) == []
-
-
-def test_known_gaps_are_still_gaps():
-    assert sorted(KNOWN_GAPS - all_gaps()) == [], "fixed: remove these entries from KNOWN_GAPS"
+    assert sorted(gaps) == []
 
 
 # -- Examples (doctests) of the core -----------------------------------------------------------------
