@@ -33,11 +33,11 @@ __all__ = [
 ]
 
 GRADING_HEADER = ["notch", "R in circuit [ohm]", "section cut out [ohm]", "peak current [A]", "switching current [A]"]
-CHECK_HEADER = ["step", *GRADING_HEADER[1:], "verdict"]
+CHECK_HEADER = [*GRADING_HEADER, "verdict"]
 
 _DOC = {
     "v_supply": "Supply voltage at the starter [V]",
-    "r_motor": "Motor's own circuit resistance: armature plus series field [ohm]",
+    "r_motor": "Motor's own resistance in the starter circuit: armature, interpoles and any series field [ohm]",
     "i_peak": "Current at the start of every notch, the upper limit [A]",
     "i_switch": "Least current at which a notch may be cut out, the lower limit [A]",
     "notches": "Optional fixed number of notches [-]; blank: the fewest that keep i_switch",
@@ -126,10 +126,10 @@ def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, header
     return spill(GRADING_HEADER, rows, flag("headers", headers, True))
 
 
-@cell_function(**_GRADING_DOCS, r_armature="Armature-circuit resistance of the motor [ohm]")
-def NW_GRADE_SHUNT(v_supply, r_armature, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
+@cell_function(**_GRADING_DOCS, r_motor=_DOC["r_motor"])
+def NW_GRADE_SHUNT(v_supply, r_motor, i_peak, i_switch, notches=None, brush_drop=None, headers=None):
     """Graded starter sections of a DC shunt or separately excited motor: one row per notch, geometric current-limit law."""
-    motor = ShuntMotor(require_positive("r_armature", r_armature, "ohm"))  # grading needs no k_phi
+    motor = ShuntMotor(require_positive("r_motor", r_motor, "ohm"))  # grading needs no k_phi
     return _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers)
 
 
@@ -282,15 +282,15 @@ def NW_SERIES_RESIDUAL_SPEED(v_supply, r_circuit, mag_curve, mag_speed, brush_dr
     v_rated="Rated armature voltage [V]",
     i_rated="Rated armature current [A]",
     n_rated="Rated speed [rpm]",
-    r_armature="Armature-circuit resistance [ohm]",
+    r_motor=_DOC["r_motor"],
     brush_drop=_DOC["brush_drop"],
 )
-def NW_SHUNT_KPHI(v_rated, i_rated, n_rated, r_armature, brush_drop=None):
+def NW_SHUNT_KPHI(v_rated, i_rated, n_rated, r_motor, brush_drop=None):
     """Back-EMF constant of a shunt or separately excited motor from its rating plate [V/rpm]."""
     return k_phi_from_rating(
         number("v_rated", v_rated, "V"),
         number("i_rated", i_rated, "A"),
         number("n_rated", n_rated, "rpm"),
-        number("r_armature", r_armature, "ohm"),
+        number("r_motor", r_motor, "ohm"),
         optional_number("brush_drop", brush_drop, 0.0, "V"),
     )

@@ -180,9 +180,9 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
     "name, position, bad, words",
     [
         ("NW_GRADE_SHUNT", 0, "abc", "v_supply ('abc') is not a number in V"),
-        ("NW_GRADE_SHUNT", 1, None, "r_armature is empty"),
+        ("NW_GRADE_SHUNT", 1, None, "r_motor is empty"),
         ("NW_GRADE_SHUNT", 3, 400.0, "i_switch (400 A) must be below i_peak (300 A)"),
-        ("NW_GRADE_SHUNT", 1, -0.05, "r_armature (-0.05 ohm) must be above zero"),
+        ("NW_GRADE_SHUNT", 1, -0.05, "r_motor (-0.05 ohm) must be above zero"),
         ("NW_GRADE_SHUNT", 4, 99.0, "notches (99) must be from 1 to 30"),
         ("NW_GRADE_SERIES", 4, (("I", "E"), (0.0, 10.0), (100.0, 5.0)), "EMF must not fall"),
         ("NW_CHECK_SECTIONS", 0, "wound rotor", "kind ('wound rotor') must be one of: shunt, series, compound"),

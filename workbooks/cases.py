@@ -107,7 +107,7 @@ def _conveyor_sheet() -> Sheet:
         story=CONVEYOR.story,
         inputs=(
             Input("conveyor_v_supply", "Supply voltage at the starter", c["v_supply"], "V"),
-            Input("conveyor_r_armature", "Armature-circuit resistance", c["r_armature"], "ohm"),
+            Input("conveyor_r_motor", "Motor's own resistance (armature circuit)", c["r_motor"], "ohm"),
             Input("conveyor_i_peak", "Peak current on every notch", c["i_peak"], "A"),
             Input("conveyor_i_switch", "Least switching current", c["i_switch"], "A"),
             Input("conveyor_notches", "Number of notches", c["notches"], "-"),
@@ -119,14 +119,14 @@ def _conveyor_sheet() -> Sheet:
             Result(
                 "Graded starter sections on the given number of notches",
                 "NW_GRADE_SHUNT",
-                ("conveyor_v_supply", "conveyor_r_armature", "conveyor_i_peak", "conveyor_i_switch",
+                ("conveyor_v_supply", "conveyor_r_motor", "conveyor_i_peak", "conveyor_i_switch",
                  "conveyor_notches", "conveyor_brush_drop"),
                 FUNCTION_BASIS["grading"],
             ),
             Result(
                 "Back-EMF constant from the rating plate (rated voltage = supply voltage)",
                 "NW_SHUNT_KPHI",
-                ("conveyor_v_supply", "conveyor_i_rated", "conveyor_n_rated", "conveyor_r_armature",
+                ("conveyor_v_supply", "conveyor_i_rated", "conveyor_n_rated", "conveyor_r_motor",
                  "conveyor_brush_drop"),
                 FUNCTION_BASIS["machine"],
                 unit="V/rpm",

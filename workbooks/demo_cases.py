@@ -70,7 +70,7 @@ CONVEYOR = DemoCase(
     ),
     inputs={
         "v_supply": 460.0,
-        "r_armature": 0.085,
+        "r_motor": 0.085,
         "i_peak": 380.0,
         "i_switch": 210.0,
         "brush_drop": 2.0,

@@ -86,8 +86,8 @@ def demo_start(key):
         rows = np.array(data["mag_curve"])
         motor = SeriesMotor(data["r_motor"], magnetization_curve(rows[:, 0], rows[:, 1], data["mag_speed"]))
     else:
-        k_phi = k_phi_from_rating(data["v_supply"], data["i_rated"], data["n_rated"], data["r_armature"], data["brush_drop"])
-        motor = ShuntMotor(data["r_armature"], k_phi)
+        k_phi = k_phi_from_rating(data["v_supply"], data["i_rated"], data["n_rated"], data["r_motor"], data["brush_drop"])
+        motor = ShuntMotor(data["r_motor"], k_phi)
     grading = grade_uniform(
         motor, data["v_supply"], data["i_peak"], data["i_switch"], data.get("notches"), data["brush_drop"]
     )
