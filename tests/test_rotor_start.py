@@ -52,7 +52,7 @@ class TestAgainstSolveIvp:
         dwell, n_cut, energy = reference(SECTIONS, load, i_cut=I_CUT)
         np.testing.assert_allclose(result.dwell_s, dwell, rtol=1e-7)
         np.testing.assert_allclose(result.n_cut_rpm, n_cut, rtol=1e-9)
-        np.testing.assert_allclose(result.energy_step_j, energy, rtol=1e-7)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-7)
 
     def test_definite_time_start(self):
         dwells = [0.9, 0.5, 0.3, 0.2, 0.15]
@@ -60,7 +60,7 @@ class TestAgainstSolveIvp:
         _, n_end, energy = reference(SECTIONS, LOAD_TABLE, dwells=dwells)
         np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-9)
         np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-7)
-        np.testing.assert_allclose(result.energy_step_j, energy, rtol=1e-6)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-6)
 
 
 class TestEnergyLaw:
@@ -73,7 +73,7 @@ class TestEnergyLaw:
         law = 0.5 * MOTOR.inertia_kgm2 * MOTOR.omega_sync_rad_s**2 * (s[:-1] ** 2 - s[1:] ** 2)
         np.testing.assert_allclose(result.energy_rotor_j, law, rtol=1e-12)
         share = (result.r_total_ohm - MOTOR.r_rotor_side_ohm) / result.r_total_ohm
-        np.testing.assert_allclose(result.energy_step_j, law * share, rtol=1e-12)
+        np.testing.assert_allclose(result.energy_notch_j, law * share, rtol=1e-12)
 
     def test_load_adds_energy(self):
         loaded = simulate_rotor_start(MOTOR, SECTIONS, 1500.0, i_cut_a=I_CUT)
@@ -107,7 +107,7 @@ class TestStart:
 
     def test_a_step_already_below_its_cut_out_current_is_cut_at_once(self):
         result = simulate_rotor_start(MOTOR, [5.0, *SECTIONS], 0.0, i_cut_a=I_CUT)
-        assert result.dwell_s[0] == 0.0 and result.energy_step_j[0] == 0.0
+        assert result.dwell_s[0] == 0.0 and result.energy_notch_j[0] == 0.0
 
 
 class TestMessages:
