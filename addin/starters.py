@@ -18,6 +18,7 @@ from notchwise.formulas.dc_motor import (
 from notchwise.formulas.errors import require_non_negative, require_positive
 from notchwise.formulas.grading import check_sections, grade_uniform
 
+from .induction import ROTOR_KIND, wound_rotor_from_values
 from .cells import cell_function, each, flag, number, optional_count, optional_number, option, spill, table, column
 
 __all__ = [
@@ -96,8 +97,8 @@ def _compound(cells):
 
 
 #: Every machine kind the cells accept, and how each is built from its cells (r_motor, mag_curve, k_phi,
-#: mag_speed, shunt_at, series_turns as given). A new machine is one line here.
-MACHINES = {"shunt": _shunt, "series": _series, "compound": _compound}
+#: mag_speed, shunt_at, series_turns as given; a wound rotor's block as NW_GRADE_ROTOR reads it). A new machine is one line here.
+MACHINES = {"shunt": _shunt, "series": _series, "compound": _compound, ROTOR_KIND: wound_rotor_from_values}
 MOTOR_KINDS = tuple(MACHINES)
 
 
