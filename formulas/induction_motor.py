@@ -454,7 +454,7 @@ class WoundRotorMotor:
                 f"the rotor current {quantity(i_rotor_a, 'A')} is more than the rotor draws short-circuited at "
                 f"standstill ({quantity(self.ratio * self.v_thevenin_v / math.hypot(z_th.real, x_sum), 'A')})"
             )
-        return math.sqrt(reach**2 - x_sum**2) - z_th.real
+        return reach * math.sqrt(1.0 - (x_sum / reach) ** 2) - z_th.real  # sqrt(reach² - X²), no overflow for a tiny current
 
     # --- what the starter asks of the machine ------------------------------------------------------------------
 

@@ -209,3 +209,14 @@ class TestThroughTheStartCells:
         peak = table[0]
         direct = simulate_rotor_start(low, SECTIONS, 1000.0, i_cut_a=I_CUT)  # tolerance 0, grid at 20 °C
         assert peak[2] == pytest.approx(621.0) and peak[1] == pytest.approx(max(direct.i_peak_a.max(), direct.i_peak_run_a), rel=1e-12)
+
+    def test_protection_takes_the_stator_history_directly(self):
+        """NW_RIDE_THROUGH on the whole five-column history reads the stator current, the same as on the two
+        columns time and stator current (and not the rotor current)."""
+        history = _cells("NW_START_HISTORY", ROTOR_CELLS, SECTION_CELLS, 1000.0, I_CUT, 60, None, True)
+        two = [[row[0], row[4]] for row in history]
+        rotor = [[row[0], row[1]] for row in history]
+        arguments = ("IEC VI", 300.0, 0.3, None, None, None, None, None, None, None)
+        whole = _cells("NW_RIDE_THROUGH", history, *arguments)
+        assert whole == _cells("NW_RIDE_THROUGH", two, *arguments)
+        assert whole != _cells("NW_RIDE_THROUGH", rotor, *arguments)
