@@ -233,8 +233,10 @@ class _Writer:
             at = first + r
             self._write_value(ws, at, col, current, self.fmt["input"])
             ref = xl_rowcol_to_cell(at, col)
-            for c, (_, function, arguments, basis) in enumerate(sweep.columns):
+            for c, (_, function, arguments, basis, *pick) in enumerate(sweep.columns):
                 formula, value, inputs = self._call(function, arguments, each=(ref, current))
+                if pick and isinstance(value, list):  # one cell of a one-row result (schema.Sweep)
+                    formula, value = f"=INDEX({formula[1:]},1,{pick[0]})", value[0][pick[0] - 1]
                 where = self._write_result(ws, at, col + 1 + c, formula, value)
                 self.computed.append(Computed(sheet.name, where, function, formula, inputs, value, basis,
                                               sweep.title, in_sweep=True))
