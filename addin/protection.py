@@ -17,6 +17,7 @@ from notchwise.formulas.protection import (
     ride_through,
 )
 from notchwise.formulas.relays import (
+    FLAT_FROM_MULTIPLE,
     curve_named,
     current_for_time_a,
     multiplier_for_time,
@@ -62,6 +63,7 @@ _DOC = {
     "highset": "Optional pickup of the high-set element [A]; blank: none",
     "highset_delay": "Optional definite-time delay of the high-set element [s]; blank: 0 s, instantaneous",
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",
+    "flat_from": "Optional multiple of pickup beyond which the curve is flat, definite time [-]; blank: 20 (IEC 60255-151)",
 }
 
 
@@ -95,28 +97,33 @@ def figure_table(figures, headers):
     return spill(FIGURE_HEADER, rows, flag("headers", headers, True))
 
 
-@cell_function(curve=_DOC["curve"], current=_DOC["current"], pickup=_DOC["pickup"], multiplier=_DOC["multiplier"])
-def NW_RELAY_TIME(curve, current, pickup, multiplier):
+@cell_function(curve=_DOC["curve"], current=_DOC["current"], pickup=_DOC["pickup"], multiplier=_DOC["multiplier"],
+               flat_from=_DOC["flat_from"])
+def NW_RELAY_TIME(curve, current, pickup, multiplier, flat_from=None):
     """Operating time of an inverse-time overcurrent element (IEC 60255-151, IEEE C37.112) at a current [s]."""
     chosen = curve_named(curve)
     pickup_a, mult = number("pickup", pickup, "A"), number("multiplier", multiplier)
-    return at_once("current", current, "A", lambda i_a: operate_time_s(chosen, i_a, pickup_a, mult), NO_OPERATION)
+    flat = optional_number("flat_from", flat_from, FLAT_FROM_MULTIPLE)
+    return at_once("current", current, "A", lambda i_a: operate_time_s(chosen, i_a, pickup_a, mult, flat), NO_OPERATION)
 
 
-@cell_function(curve=_DOC["curve"], current=_DOC["current"], pickup=_DOC["pickup"], target_time=_DOC["target_time"])
-def NW_RELAY_MULTIPLIER(curve, current, pickup, target_time):
+@cell_function(curve=_DOC["curve"], current=_DOC["current"], pickup=_DOC["pickup"], target_time=_DOC["target_time"],
+               flat_from=_DOC["flat_from"])
+def NW_RELAY_MULTIPLIER(curve, current, pickup, target_time, flat_from=None):
     """TMS or time dial at which an inverse-time element operates in target_time at a current [-]."""
     chosen = curve_named(curve)
     pickup_a, t_s = number("pickup", pickup, "A"), number("target_time", target_time, "s")
-    return each("current", current, "A", lambda i_a: multiplier_for_time(chosen, i_a, pickup_a, t_s))
+    flat = optional_number("flat_from", flat_from, FLAT_FROM_MULTIPLE)
+    return each("current", current, "A", lambda i_a: multiplier_for_time(chosen, i_a, pickup_a, t_s, flat))
 
 
-@cell_function(curve=_DOC["curve"], target_time=_DOC["target_time"], pickup=_DOC["pickup"], multiplier=_DOC["multiplier"])
-def NW_RELAY_CURRENT(curve, target_time, pickup, multiplier):
+@cell_function(curve=_DOC["curve"], target_time=_DOC["target_time"], pickup=_DOC["pickup"], multiplier=_DOC["multiplier"],
+               flat_from=_DOC["flat_from"])
+def NW_RELAY_CURRENT(curve, target_time, pickup, multiplier, flat_from=None):
     """Current at which an inverse-time element with a given setting operates in target_time [A]."""
     return current_for_time_a(
         curve_named(curve), number("target_time", target_time, "s"), number("pickup", pickup, "A"),
-        number("multiplier", multiplier),
+        number("multiplier", multiplier), optional_number("flat_from", flat_from, FLAT_FROM_MULTIPLE),
     )
 
 
@@ -255,11 +262,14 @@ def NW_PROPOSE_SETTINGS(
     highset=_DOC["highset"],
     highset_delay=_DOC["highset_delay"],
     headers=_DOC["headers"],
+    multiplier_up="Optional upstream multiplier as set, to check: its least margin and where [-]; blank: propose only",
+    flat_from=_DOC["flat_from"],
 )
 def NW_COORDINATE(
-    curve_up, pickup_up, curve, pickup, multiplier, i_max, cti=None, highset=None, highset_delay=None, headers=None
+    curve_up, pickup_up, curve, pickup, multiplier, i_max, cti=None, highset=None, highset_delay=None, headers=None,
+    multiplier_up=None, flat_from=None,
 ):
-    """Least upstream multiplier that grades with the motor's protection at i_max by a coordination time interval."""
+    """Least upstream multiplier keeping the coordination interval at every current from the larger pickup to i_max, where it binds, and a check of a given upstream setting."""
     figures = coordinate_upstream(
         curve_named(curve_up, "curve_up"),
         number("pickup_up", pickup_up, "A"),
@@ -270,5 +280,7 @@ def NW_COORDINATE(
         optional_number("cti", cti, CTI_S, "s"),
         optional_number("highset", highset, None, "A"),
         optional_number("highset_delay", highset_delay, 0.0, "s"),
+        optional_number("multiplier_up", multiplier_up, None),
+        optional_number("flat_from", flat_from, FLAT_FROM_MULTIPLE),
     )
     return figure_table(figures, headers)

@@ -45,10 +45,13 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
+from scipy import optimize
 
 from .errors import DesignError, InputError, quantity, require_non_negative, require_positive
 from .relays import (
+    FLAT_FROM_MULTIPLE,
     Curve,
+    checked_flat_from,
     current_history,
     curve_named,
     definite_progress,
@@ -341,6 +344,20 @@ def propose_settings(
     return figures
 
 
+#: Currents at which the interval is evaluated across the shared range, log-spaced, before the least
+#: margin is refined by Brent's bounded method (common practice, no source: fine enough that the
+#: refinement starts inside the right bracket on every curve of the table). [-]
+COORDINATION_GRID = 400
+
+
+def _motor_time_s(i_a, curve, pickup_a, multiplier, highset_a, highset_delay_s, flat_from):
+    """Time of the motor's protection at ``i_a``: its inverse-time element or its high-set, whichever is faster. [s]"""
+    times = np.asarray(operate_time_s(curve, i_a, pickup_a, multiplier, flat_from), dtype=float)
+    if highset_a is not None:
+        times = np.minimum(times, definite_time_s(i_a, highset_a, highset_delay_s))
+    return times
+
+
 def coordinate_upstream(
     curve_up: Curve,
     pickup_up_a: float,
@@ -351,19 +368,28 @@ def coordinate_upstream(
     cti_s: float = CTI_S,
     highset_a: float | None = None,
     highset_delay_s: float = 0.0,
+    multiplier_up: float | None = None,
+    flat_from: float = FLAT_FROM_MULTIPLE,
 ) -> list[Figure]:
-    """Least multiplier of an upstream inverse-time element that grades with the motor's protection.
+    r"""Least multiplier of an upstream inverse-time element that grades with the motor's protection.
+
+    The interval is kept at every current both devices see, from the larger
+    pickup to ``i_max_a``, not at ``i_max_a`` alone: with unlike curves (an
+    IEC SI feeder over an IEC LTI motor relay) the interval is tightest well
+    below the largest current.
 
     Parameters
     ----------
     curve_up : Curve
-        Characteristic of the upstream element.
+        Characteristic of the upstream element. [-]
     pickup_up_a : float
         Its pickup. [A]
     curve : Curve
-        Characteristic of the motor's inverse-time element.
-    pickup_a, multiplier : float
-        Its pickup [A] and multiplier [-].
+        Characteristic of the motor's inverse-time element. [-]
+    pickup_a : float
+        Its pickup. [A]
+    multiplier : float
+        Its multiplier. [-]
     i_max_a : float
         Largest current both see (the fault current at the motor's terminals). [A]
     cti_s : float, optional
@@ -372,33 +398,120 @@ def coordinate_upstream(
         Pickup of the motor's high-set element; None for none. [A]
     highset_delay_s : float, optional
         Its definite-time delay; 0 for instantaneous. [s]
+    multiplier_up : float, optional
+        A setting of the upstream element to check: its least margin over
+        the interval and the current where it falls. [-]
+    flat_from : float, optional
+        Multiple of pickup beyond which both curves are held flat. [-]
 
     Returns
     -------
     list of Figure
-        The motor element's time at ``i_max_a``, the upstream time needed
-        and the upstream multiplier.
+        The motor protection's time and the upstream time needed at
+        ``i_max_a``; the least upstream multiplier over the shared range and
+        the current where the interval binds, with both times there; with
+        ``multiplier_up``, its least margin beyond the interval, where, and
+        a verdict.
+
+    Notes
+    -----
+    With :math:`t_d(I)` the motor protection's time and :math:`s_u(I)` the
+    upstream curve's time at multiplier 1 (both from Table 1 of [1]_), the
+    upstream multiplier must satisfy :math:`m_u\,s_u(I) \ge t_d(I) + \Delta t`
+    at every shared current, so
+
+    .. math:: m_u = \max_{I_0 < I \le I_{max}} rac{t_d(I) + \Delta t}{s_u(I)},
+              \qquad I_0 = \max(I_{s,u}, I_s)
+
+    References
+    ----------
+    .. [1] IEC 60255-151:2009, Table 1; IEEE C37.112-1996, Table 1.
+    .. [2] R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall, 1973, ch. 5.
     """
-    curve_up, curve = curve_named(curve_up, "curve_up"), curve_named(curve)
     i_max = require_positive("i_max", i_max_a, "A")
     cti = require_positive("cti", cti_s, "s")
-    t_inverse = float(operate_time_s(curve, i_max, pickup_a, multiplier))
-    t_down, which = t_inverse, f"{curve.name} at multiplier {float(multiplier):g}"
-    if highset_a is not None:
-        t_high = float(definite_time_s(i_max, highset_a, highset_delay_s))
-        if t_high < t_down:
-            t_down, which = t_high, f"high-set at {quantity(float(highset_a), 'A')}, delay {quantity(float(highset_delay_s), 's')}"
-    if math.isinf(t_down):
+    pickup_up = require_positive("pickup_up", pickup_up_a, "A")
+    pickup = require_positive("pickup", pickup_a, "A")
+    flat = checked_flat_from(flat_from)
+    if multiplier_up is not None:
+        multiplier_up = require_positive("multiplier_up", multiplier_up)
+    if pickup_up < pickup:
+        raise DesignError(
+            f"pickup_up ({quantity(pickup_up, 'A')}) is below the motor element's pickup ({quantity(pickup, 'A')}): "
+            "between them the upstream relay operates alone, so no multiplier grades; raise pickup_up to at least pickup"
+        )
+    if i_max <= pickup_up:
+        raise DesignError(
+            f"i_max ({quantity(i_max, 'A')}) is not above pickup_up ({quantity(pickup_up, 'A')}): "
+            "the upstream relay does not operate, there is nothing to grade"
+        )
+
+    def motor_s(i_a):
+        return _motor_time_s(i_a, curve, pickup, multiplier, highset_a, highset_delay_s, flat)
+
+    def upstream_at_one_s(i_a):
+        return np.asarray(operate_time_s(curve_up, i_a, pickup_up, 1.0, flat), dtype=float)
+
+    t_down_max = float(motor_s(i_max))
+    if math.isinf(t_down_max):
         raise DesignError(f"the motor's protection does not operate at i_max ({quantity(i_max, 'A')}): raise i_max or lower its pickups")
-    t_up = t_down + cti
-    m_up = multiplier_for_time(curve_up, i_max, pickup_up_a, t_up)
-    return [
-        Figure("motor protection operates in", t_down, "s", f"{which} at i_max {quantity(i_max, 'A')}"),
-        Figure("upstream must take at least", t_up, "s", f"plus cti {quantity(cti, 's')}; 0.2 s to 0.4 s is common practice (IEEE Std 242-2001, ch. 15, from memory)"),
+
+    def needed(i_a):
+        """Upstream multiplier that keeps the interval at ``i_a``. [-]"""
+        return (motor_s(i_a) + cti) / upstream_at_one_s(i_a)
+
+    # Where the motor's time jumps (high-set pickup) or a curve turns flat, the maximum may sit at a corner.
+    corners = [pickup * flat, pickup_up * flat, i_max] + ([highset_a * (1.0 + 1e-9)] if highset_a is not None else [])
+    grid = np.geomspace(pickup_up * (1.0 + 1e-6), i_max, COORDINATION_GRID)
+    grid = np.unique(np.concatenate((grid, [c for c in corners if pickup_up < c <= i_max])))
+    need = needed(grid)
+    if not np.all(np.isfinite(need)):
+        at = float(grid[np.argmax(~np.isfinite(need))])
+        raise DesignError(f"the motor's protection does not operate at {quantity(at, 'A')}, inside the shared range: no multiplier grades")
+    k = int(np.argmax(need))
+    i_tight, m_up = float(grid[k]), float(need[k])
+    if 0 < k < grid.size - 1:
+        best = optimize.minimize_scalar(
+            lambda i: -float(needed(i)), bounds=(float(grid[k - 1]), float(grid[k + 1])), method="bounded",
+            options={"xatol": 1e-9 * float(grid[k])},
+        )  # Brent's bounded method, [2]
+        if -best.fun > m_up:
+            i_tight, m_up = float(best.x), float(-best.fun)
+    t_down_tight = float(motor_s(i_tight))
+    motor_name = f"{curve.name} at multiplier {float(multiplier):g}" + (
+        f", high-set at {quantity(float(highset_a), 'A')}" if highset_a is not None else ""
+    )
+    figures = [
+        Figure("motor protection operates in", t_down_max, "s", f"{motor_name}, at i_max {quantity(i_max, 'A')}"),
+        Figure("upstream must take at least", t_down_max + cti, "s", f"plus cti {quantity(cti, 's')} at i_max; 0.2 s to 0.4 s is common practice (IEEE Std 242-2001, ch. 15, from memory)"),
         Figure(
             "upstream multiplier at least",
             m_up,
             "-",
-            f"{curve_up.name} at pickup {quantity(float(pickup_up_a), 'A')} operating in that time at i_max, {curve_up.source}",
+            f"{curve_up.name} at pickup {quantity(pickup_up, 'A')}: the least multiplier keeping cti at every current from "
+            f"{quantity(pickup_up, 'A')} to {quantity(i_max, 'A')} (curves flat beyond {flat:g} x pickup), {curve_up.source}",
         ),
+        Figure("interval is tightest at", i_tight, "A", "the current where that multiplier leaves exactly cti"),
+        Figure("motor protection there", t_down_tight, "s", motor_name),
+        Figure("upstream there", t_down_tight + cti, "s", f"{curve_up.name} at multiplier {m_up:.4g}"),
     ]
+    if multiplier_up is not None:
+        margins = multiplier_up * upstream_at_one_s(grid) - motor_s(grid) - cti
+        j = int(np.argmin(margins))
+        i_least, least = float(grid[j]), float(margins[j])
+        if 0 < j < grid.size - 1:
+            best = optimize.minimize_scalar(
+                lambda i: float(multiplier_up * upstream_at_one_s(i) - motor_s(i) - cti),
+                bounds=(float(grid[j - 1]), float(grid[j + 1])), method="bounded",
+                options={"xatol": 1e-9 * float(grid[j])},
+            )
+            if best.fun < least:
+                i_least, least = float(best.x), float(best.fun)
+        verdict = "grades" if least >= -1e-9 * cti else "DOES NOT GRADE"
+        figures += [
+            Figure("least margin beyond cti, as set", least, "s",
+                   f"{verdict}: {curve_up.name} at multiplier {multiplier_up:g}, least over {quantity(pickup_up, 'A')} to "
+                   f"{quantity(i_max, 'A')}; below zero the feeder can trip first"),
+            Figure("least margin occurs at", i_least, "A", "the current where the setting as set comes closest"),
+        ]
+    return figures

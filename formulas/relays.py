@@ -24,9 +24,16 @@ integral form of [3]_ (and the usual behaviour of numerical elements under
 :math:`dt/t_r(M)` for the IEEE curves, at once for the IEC curves (which
 define no inverse reset; relays offer instantaneous or definite-time reset).
 
-The curve is applied as written up to any current; real relays often hold the
-time constant beyond 20 or 30 times pickup (IEC 60255-151 states accuracy
-over a limited range of :math:`M`): check the relay's own data there.
+The dependent-time characteristic is defined only up to a stated multiple of
+the setting [1]_ (sub-clause on the effective range of the characteristic,
+from memory); beyond it a relay operates in definite time, the time the curve
+gives at that multiple. Every function here holds the curve flat beyond
+``flat_from`` times pickup (default :data:`FLAT_FROM_MULTIPLE`, 20; make it
+the relay's own figure, often 20 to 30):
+
+.. math:: t(M) = t(\min(M, M_{flat}))
+
+so no current operates an element faster than the relay can.
 
 Currents are magnitudes in A and must not be negative.
 
@@ -53,6 +60,7 @@ from .errors import (
     DesignError,
     InputError,
     InputTypeError,
+    as_float,
     as_magnitudes,
     as_time_series,
     choose,
@@ -67,6 +75,8 @@ __all__ = [
     "CURVES",
     "CURVE_NAMES",
     "curve_named",
+    "FLAT_FROM_MULTIPLE",
+    "checked_flat_from",
     "current_history",
     "operate_time_s",
     "multiplier_for_time",
@@ -153,18 +163,34 @@ def current_history(t_s, i_a) -> tuple[np.ndarray, np.ndarray]:
     return t, as_magnitudes("history current", currents, "A")
 
 
+#: Multiple of pickup beyond which the inverse-time curve is held flat (definite time): IEC 60255-151
+#: defines the dependent-time characteristic up to a stated multiple of setting, 20 unless the relay
+#: states more (from memory). [-]
+FLAT_FROM_MULTIPLE = 20.0
+#: Largest flat_from accepted: beyond it no relay's measuring range reaches (common practice, no source). [-]
+FLAT_FROM_LIMIT = 1000.0
+
+
 def _settings(pickup_a, multiplier):
     return require_positive("pickup", pickup_a, "A"), require_positive("multiplier", multiplier)
 
 
-def _shape(m, curve: Curve):
-    """:math:`k/(M^\\alpha - 1) + c` where M > 1, inf elsewhere: the time at multiplier 1. [s]"""
+def checked_flat_from(flat_from) -> float:
+    """``flat_from`` checked: a multiple of pickup above 1 and at most :data:`FLAT_FROM_LIMIT`. [-]"""
+    value = as_float("flat_from", flat_from)
+    if not 1.0 < value <= FLAT_FROM_LIMIT:
+        raise InputError(f"flat_from ({shown(value)}) must be above 1 and at most {FLAT_FROM_LIMIT:g} times pickup")
+    return value
+
+
+def _shape(m, curve: Curve, flat_from: float):
+    """:math:`k/(M^\\alpha - 1) + c` where M > 1, M held at ``flat_from`` beyond it, inf at or below 1. [s]"""
     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
-        excess = np.power(m, curve.alpha) - 1.0
+        excess = np.power(np.minimum(m, flat_from), curve.alpha) - 1.0  # flat beyond flat_from, see module notes
         return np.where(excess > 0.0, curve.k / np.where(excess > 0.0, excess, 1.0) + curve.c, np.inf)  # Table 1 of [1], [3]
 
 
-def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
+def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float, flat_from: float = FLAT_FROM_MULTIPLE):
     r"""Operating time of an inverse-time element at a constant current.
 
     Parameters
@@ -177,6 +203,9 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
         Pickup (setting) current :math:`I_s`. [A]
     multiplier : float
         Time multiplier: TMS (IEC) or time dial TD (IEEE). [-]
+    flat_from : float, optional
+        Multiple of pickup beyond which the curve is held flat (definite
+        time). [-]
 
     Returns
     -------
@@ -186,7 +215,7 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
 
     Notes
     -----
-    .. math:: t = m\left(\frac{k}{(I/I_s)^{\alpha} - 1} + c\right)
+    .. math:: t = m\left(\frac{k}{\min(I/I_s, M_{flat})^{\alpha} - 1} + c\right)
 
     References
     ----------
@@ -195,9 +224,10 @@ def operate_time_s(curve: Curve, i_a, pickup_a: float, multiplier: float):
     curve = curve_named(curve)
     currents = _currents(i_a)
     pickup, mult = _settings(pickup_a, multiplier)
+    flat = checked_flat_from(flat_from)
     with np.errstate(over="ignore"):
         m = currents / pickup
-        times = mult * _shape(m, curve)  # Table 1 of [1]
+        times = mult * _shape(m, curve, flat)  # Table 1 of [1]
     if np.any(np.isinf(times) & (m > 1.0)):
         raise InputError(f"multiplier ({mult:.4g}) is so large that the operating time overflows")
     return times[()]
@@ -214,7 +244,7 @@ def _operating_multiple(i_a: float, pickup_a: float) -> float:
     return current / pickup
 
 
-def multiplier_for_time(curve: Curve, i_a: float, pickup_a: float, t_s: float) -> float:
+def multiplier_for_time(curve: Curve, i_a: float, pickup_a: float, t_s: float, flat_from: float = FLAT_FROM_MULTIPLE) -> float:
     r"""Time multiplier (TMS or time dial) at which the element operates in ``t_s`` at ``i_a``.
 
     Parameters
@@ -227,22 +257,25 @@ def multiplier_for_time(curve: Curve, i_a: float, pickup_a: float, t_s: float) -
         Pickup current. [A]
     t_s : float
         Wanted operating time. [s]
+    flat_from : float, optional
+        Multiple of pickup beyond which the curve is held flat (definite
+        time). [-]
 
     Returns
     -------
     float
-        :math:`m = t / (k/(M^\alpha - 1) + c)`. [-]
+        :math:`m = t / (k/(\min(M, M_{flat})^\alpha - 1) + c)`. [-]
     """
     curve = curve_named(curve)
     m = _operating_multiple(i_a, pickup_a)
     t = require_positive("target_time", t_s, "s")
-    at_one_s = float(_shape(m, curve))
+    at_one_s = float(_shape(m, curve, checked_flat_from(flat_from)))
     if not at_one_s > 0.0:
         raise InputError(f"current is {m:.4g} times pickup, beyond the reach of {curve.name}: its time there is zero")
     return t / at_one_s  # Table 1 of [1], solved for m
 
 
-def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: float) -> float:
+def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: float, flat_from: float = FLAT_FROM_MULTIPLE) -> float:
     r"""Current at which a setting operates in a given time.
 
     Parameters
@@ -255,6 +288,9 @@ def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: fl
         Pickup current. [A]
     multiplier : float
         TMS or time dial. [-]
+    flat_from : float, optional
+        Multiple of pickup beyond which the curve is held flat (definite
+        time). [-]
 
     Returns
     -------
@@ -264,17 +300,20 @@ def current_for_time_a(curve: Curve, t_s: float, pickup_a: float, multiplier: fl
     Raises
     ------
     DesignError
-        Where ``t_s`` is at or below :math:`m c`, the time the IEEE curves
-        tend to at infinite current: no current operates that fast.
+        Where ``t_s`` is shorter than the time of the flat part beyond
+        ``flat_from`` times pickup: no current operates that fast. At
+        exactly that time every current from ``flat_from`` times pickup up
+        operates; the least of them is returned.
     """
     curve = curve_named(curve)
     t = require_positive("target_time", t_s, "s")
     pickup, mult = _settings(pickup_a, multiplier)
-    floor_s = mult * curve.c
-    if t <= floor_s:
+    flat = checked_flat_from(flat_from)
+    floor_s = float(mult * _shape(flat, curve, flat))
+    if t < floor_s:
         raise DesignError(
-            f"target_time ({quantity(t, 's')}) is not above {quantity(floor_s, 's')}, the time {curve.name} "
-            "tends to at unlimited current with this multiplier: no current operates that fast"
+            f"target_time ({quantity(t, 's')}) is shorter than {quantity(floor_s, 's')}, the time of {curve.name} "
+            f"at this multiplier beyond {flat:g} times pickup, where the curve is flat: no current operates that fast"
         )
     with np.errstate(over="ignore", divide="ignore", under="ignore"):
         at_one_s = np.float64(t) / mult - curve.c
@@ -383,7 +422,10 @@ def _accumulate(t: np.ndarray, steps: np.ndarray, falls: np.ndarray, instant_res
     return Progress(t, progress, trip)
 
 
-def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float, inverse_reset: bool | None = None):
+def operate_progress(
+    curve: Curve, t_s, i_a, pickup_a: float, multiplier: float, inverse_reset: bool | None = None,
+    flat_from: float = FLAT_FROM_MULTIPLE,
+):
     r"""Operate progress of an inverse-time element along a current history.
 
     Each sample's current is held until the next sample, as a numerical relay
@@ -403,7 +445,10 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
         TMS or time dial. [-]
     inverse_reset : bool, optional
         Below pickup, fall back at the IEEE reset rate (True) or reset at once
-        (False); default True for the IEEE curves, False for the IEC curves.
+        (False); default True for the IEEE curves, False for the IEC curves. [-]
+    flat_from : float, optional
+        Multiple of pickup beyond which the curve is held flat (definite
+        time). [-]
 
     Returns
     -------
@@ -422,13 +467,14 @@ def operate_progress(curve: Curve, t_s, i_a, pickup_a: float, multiplier: float,
         raise InputTypeError(f"inverse_reset ({shown(inverse_reset)}) must be True, False or None")
     t, currents = current_history(t_s, i_a)
     pickup, mult = _settings(pickup_a, multiplier)
+    flat = checked_flat_from(flat_from)
     inverse = curve.t_reset is not None if inverse_reset is None else bool(inverse_reset)
     if inverse and curve.t_reset is None:
         raise InputError(f"curve ({curve.name!r}) has no inverse reset characteristic; reset it at once")
     dt = np.diff(t)
     with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
         m = currents[:-1] / pickup
-        rises = dt / (mult * _shape(m, curve))  # integral equation of [1]: dt / t(I); 0 where t is inf
+        rises = dt / (mult * _shape(m, curve, flat))  # integral equation of [1]: dt / t(I); 0 where t is inf
     if not np.all(np.isfinite(rises)):
         raise InputError(
             f"history current ({quantity(float(np.max(currents)), 'A')}) is so far above pickup "

@@ -140,10 +140,20 @@ def _audit_reference():
     return lambda: audit_bytes(data)
 
 
+def _help_case():
+    """``notchwise --help`` in a fresh interpreter, as a user starts it (the interpreter's own start included)."""
+    import subprocess
+    import sys
+
+    command = [sys.executable, "-m", "notchwise.workbooks.cli", "--help"]
+    return lambda: subprocess.run(command, capture_output=True, check=True)
+
+
 #: name -> (zero-argument callable building the timed call, target in s): whole commands, timed once each run.
 JOBS = {
     "audit, 1,000 NW_ cells": (_audit_case, 2.0),
     "audit, reference workbook": (_audit_reference, 12.0),  # issue 12 measured 7-12 s
+    "notchwise --help": (_help_case, 1.0),
 }
 
 

@@ -25,6 +25,7 @@ T_S, I_A = [0.0, 1.5, 1.5, 3.0, 6.0], [420.0, 300.0, 420.0, 300.0, 120.0]
 #: A valid call of every public core function of the modules under test.
 VALID = {
     relays.curve_named: ("IEC SI",),
+    relays.checked_flat_from: (20.0,),
     relays.current_history: (T_S, I_A),
     relays.operate_time_s: (SI, [200.0, 500.0], 100.0, 0.2),
     relays.multiplier_for_time: (VI, 600.0, 100.0, 1.5),

@@ -57,8 +57,8 @@ LAYERS = {
     "formulas": {"notchwise.addin", "notchwise.workbooks"},
     "addin": {"notchwise.workbooks"},
 }
-COMMAND_LINE = {f"notchwise.workbooks.{name}" for name in ("cli", "demo", "diagram", "audit")}
-WORKBOOK = ("schema.py", "cases.py", "writer.py", "build_reference.py", "demo_cases.py")
+COMMAND_LINE = {f"notchwise.workbooks.{name}" for name in ("cli", "demo", "diagram", "audit", "freeze")}
+WORKBOOK = ("schema.py", "cases.py", "writer.py", "build_reference.py", "demo_cases.py", "palette.py")
 
 
 def _imports(path: Path) -> set:

@@ -135,8 +135,13 @@ def test_high_set_sets_the_downstream_time_when_faster():
 
 
 def test_coordination_where_nothing_operates():
-    with pytest.raises(DesignError, match="does not operate at i_max"):
-        coordinate_upstream(CURVES["IEC SI"], 50.0, VI, 115.0, 0.5, 100.0)
+    with pytest.raises(DesignError, match="the upstream relay does not operate, there is nothing to grade"):
+        coordinate_upstream(CURVES["IEC SI"], 150.0, VI, 115.0, 0.5, 100.0)
+
+
+def test_an_upstream_pickup_below_the_motor_pickup_cannot_grade():
+    with pytest.raises(DesignError, match="upstream relay operates alone"):
+        coordinate_upstream(CURVES["IEC SI"], 50.0, VI, 115.0, 0.5, 1000.0)
 
 
 # --- bad inputs ------------------------------------------------------------------------------
@@ -154,8 +159,7 @@ def test_coordination_where_nothing_operates():
         (lambda: propose_settings([0.0, 1.0], [200.0, 200.0], VI, 100.0, 300.0, 10.0, start_margin=-0.1), "start_margin (-0.1)"),
         (lambda: propose_settings([0.0, 1.0], [200.0, 200.0], VI, 100.0, 300.0, 10.0, multiplier_step=0.0), "multiplier_step (0)"),
         (lambda: propose_settings([0.0, 1.0], [200.0, 200.0], VI, 100.0, 300.0, 10.0, multiplier_step=1e-300), "must be from 0.0001 to 1"),
-        (lambda: propose_settings([0.0, 5e3], [200.0, 200.0], VI, 1e-300, 300.0, 10.0, multiplier_step=1e-4), "beyond any setting"),
-        (lambda: propose_settings([0.0, 1.0], [200.0, 200.0], CURVES["IEC EI"], 1e-200, 300.0, 10.0), "operates in no time"),
+        (lambda: propose_settings([0.0, 5e3], [200.0, 200.0], VI, 1e-300, 300.0, 10.0, multiplier_step=1e-4), "no multiplier of IEC VI"),
         (lambda: ride_through([0.0, 1.0], [200.0, 200.0], VI, 100.0, 1.0, thermal=thermal_element(1e-10, 1.0, 60.0)), "check i_base"),
         (lambda: coordinate_upstream(VI, 100.0, VI, 100.0, 1.0, 500.0, cti_s=0.0), "cti (0 s) must be above zero"),
         (lambda: coordinate_upstream(VI, 100.0, VI, 100.0, 1.0, "x"), "i_max ('x') is not a number"),
@@ -195,3 +199,42 @@ def test_cell_proposal_ends_with_the_caution():
 def test_cell_bad_history_gives_a_message(history, words):
     result = udfs.NW_RIDE_THROUGH(history, "IEC VI", 140.0, 1.0)
     assert result.startswith("Error: ") and words in result, result
+
+
+# --- coordination across the whole shared range ------------------------------------------------
+
+
+def _iec_time_s(k, alpha, multiplier, multiple, flat=20.0):
+    """IEC 60255-151:2009 Table 1 form, held flat beyond ``flat`` times pickup, written out here."""
+    m = np.minimum(multiple, flat)
+    return multiplier * k / (m**alpha - 1.0)
+
+
+def test_the_proposed_upstream_multiplier_keeps_the_interval_at_every_shared_current():
+    # An IEC SI feeder over an IEC LTI motor relay: the interval binds far below i_max.
+    figures = {f.name: f.value for f in coordinate_upstream(CURVES["IEC SI"], 120.0, CURVES["IEC LTI"], 100.0, 0.5, 8000.0)}
+    m_up, i_tight = figures["upstream multiplier at least"], figures["interval is tightest at"]
+    currents = np.geomspace(120.0 * (1 + 1e-9), 8000.0, 200_001)  # an independent dense grid
+    margin = _iec_time_s(0.14, 0.02, m_up, currents / 120.0) - _iec_time_s(120.0, 1.0, 0.5, currents / 100.0) - 0.3
+    assert margin.min() >= -1e-6 * 0.3
+    assert margin.min() == pytest.approx(0.0, abs=1e-3)
+    assert i_tight == pytest.approx(currents[np.argmin(margin)], rel=1e-3)
+    assert i_tight < 1000.0  # well below i_max, where the old check at i_max alone would have looked
+    # The multiplier that grades at i_max alone lets the feeder trip first lower down:
+    m_at_i_max = (_iec_time_s(120.0, 1.0, 0.5, 80.0) + 0.3) / _iec_time_s(0.14, 0.02, 1.0, 8000.0 / 120.0)
+    assert m_at_i_max < m_up
+
+
+def test_a_given_upstream_setting_is_checked_for_its_least_margin():
+    figures = {f.name: f for f in coordinate_upstream(CURVES["IEC SI"], 120.0, CURVES["IEC LTI"], 100.0, 0.5, 8000.0,
+                                                      multiplier_up=1.0)}
+    least = figures["least margin beyond cti, as set"]
+    assert least.value < 0.0 and "DOES NOT GRADE" in least.basis
+    currents = np.geomspace(120.0 * (1 + 1e-9), 8000.0, 200_001)
+    margin = _iec_time_s(0.14, 0.02, 1.0, currents / 120.0) - _iec_time_s(120.0, 1.0, 0.5, currents / 100.0) - 0.3
+    assert least.value == pytest.approx(margin.min(), rel=1e-4)
+    assert figures["least margin occurs at"].value == pytest.approx(currents[np.argmin(margin)], rel=1e-3)
+    proposed = figures["upstream multiplier at least"].value
+    graded = {f.name: f for f in coordinate_upstream(CURVES["IEC SI"], 120.0, CURVES["IEC LTI"], 100.0, 0.5, 8000.0,
+                                                     multiplier_up=proposed * 1.001)}
+    assert graded["least margin beyond cti, as set"].basis.startswith("grades")

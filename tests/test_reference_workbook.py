@@ -107,7 +107,8 @@ def test_demo_writes_the_workbook_and_prints_the_caution(tmp_path, capsys, monke
     assert main(["demo"]) == 0
     out = capsys.readouterr().out
     assert (tmp_path / "notchwise-reference.xlsx").is_file()
-    assert CAUTION in out and "NW_GRADE_SERIES" in out and "unloaded" in out
+    assert " ".join(CAUTION.split()) in " ".join(out.split())  # wrapped to the terminal's 100 columns
+    assert "NW_GRADE_SERIES" in out and "unloaded" in out
     # demo --out writing the committed workbook: tests/test_regression_pins.py
 
 
@@ -229,3 +230,74 @@ def test_a_chart_of_a_spilled_table_is_drawn_from_its_cells_below_the_header(tmp
     assert f"Charted!$F${first_row + 1}:$F${last_row}" in chart  # notch numbers, below the header row
     assert f"Charted!$G${first_row + 1}:$G${last_row}" in chart and f"Charted!$H${first_row + 1}:$H${last_row}" in chart
     assert "R in circuit [ohm]" in chart and "resistance [ohm]" in chart
+
+
+# -- the coordination chart, number formats, texts -------------------------------------------
+
+
+def test_coordination_chart_has_log_axes_and_series_drawn_from_nw_cells():
+    archive = zipfile.ZipFile(REFERENCE)
+    charts = [archive.read(n).decode() for n in archive.namelist() if n.startswith("xl/charts/chart")]
+    chart = next(c for c in charts if "coordination diagram" in c)
+    assert chart.count('<c:logBase val="10"/>') == 2  # both axes logarithmic (ECMA-376 Part 1, 21.2.2.103)
+    contents = _contents(REFERENCE)["cells"]
+    book = openpyxl.load_workbook(REFERENCE)
+    refs = re.findall(r"<c:f>([^<]+)</c:f>", chart)
+    assert len(refs) == 18  # x and y of nine series
+    fed_by_nw = 0
+    for ref in refs:
+        sheet, cells = ref.rsplit("!", 1)
+        sheet = sheet.strip("'")
+        for row in book[sheet][cells.replace("$", "")] if ":" in cells else [[book[sheet][cells.replace("$", "")]]]:
+            formula = contents[sheet, row[0].coordinate][0]
+            assert isinstance(formula, (int, float)) or str(formula).startswith("="), ref
+            fed_by_nw += str(formula).startswith("=NW_") or (
+                isinstance(formula, str) and formula.startswith("=hoist_"))  # a link to an NW_ result or an input
+    assert fed_by_nw > 0
+    for function in ("NW_RELAY_TIME", "NW_THERMAL_TIME"):
+        assert any(str(contents["Hoist protection", cell.coordinate][0]).startswith(f"={function}(")
+                   for ref in refs if "Hoist protection" in ref and ":" in ref
+                   for (cell,) in book["Hoist protection"][ref.rsplit("!", 1)[1].replace("$", "")])
+    history = next(ref for ref in refs if "Hoist start" in ref)
+    first = book["Hoist start"][history.rsplit("!", 1)[1].replace("$", "").split(":")[0]]
+    assert contents["Hoist start", first.coordinate][0] != 0  # t = 0 (log axis) left out
+
+
+def test_number_formats_follow_unit_and_magnitude():
+    from notchwise.workbooks.writer import number_format
+
+    assert number_format(26600.0, "rpm") == "#,##0"  # 26,600 rpm
+    assert number_format(0.1676, "ohm") == "#,##0.0000"  # 0.1676 ohm
+    assert number_format(420.0, "A") == "#,##0.0"
+    assert number_format(3.0, "-") == "#,##0"  # a count
+    assert number_format(2.5e-6, "s") == "0.000E+00"
+    book = openpyxl.load_workbook(REFERENCE)
+    contents = _contents(REFERENCE)["cells"]
+    speed = next(key for key, value in contents.items() if str(value[0]).startswith("=NW_SERIES_RESIDUAL_SPEED("))
+    assert book[speed[0]][speed[1]].number_format == "#,##0"
+    sections = next(key for key, value in contents.items() if str(value[0]).startswith("=NW_GRADE_SERIES("))
+    top = book[sections[0]][sections[1]]
+    first_section = book[sections[0]].cell(top.row + 1, top.column + 2)  # section cut out [ohm], notch 1
+    assert first_section.number_format == "#,##0.0000"
+
+
+def test_every_sheet_prints_one_page_wide_and_start_here_wraps():
+    book = openpyxl.load_workbook(REFERENCE)
+    for ws in book.worksheets:
+        # fitToWidth left out means 1 (ECMA-376 Part 1, 18.3.1.64 pageSetup: default 1)
+        assert ws.page_setup.fitToWidth in (None, 1) and ws.page_setup.fitToHeight == 0, ws.title
+        assert ws.sheet_properties.pageSetUpPr.fitToPage, ws.title
+    start = book["Start here"]
+    assert all(cell.alignment.wrap_text for row in start.iter_rows(min_row=2) for cell in row if cell.value), "wrap"
+
+
+def test_the_install_line_is_the_readme_s_and_computed_cells_is_a_manifest():
+    from notchwise.workbooks.cases import HOW_TO_GO_LIVE, INSTALL_LINE
+
+    readme = (Path(__file__).parents[1] / "README.md").read_text(encoding="utf-8")
+    for command in ("python -m pip install .", "xlwings addin install"):
+        assert command in INSTALL_LINE and f"`{command}`" in readme
+    assert any(INSTALL_LINE in line for line in HOW_TO_GO_LIVE)
+    assert any("notchwise freeze" in line for line in HOW_TO_GO_LIVE)
+    computed = openpyxl.load_workbook(REFERENCE)["Computed cells"]
+    assert "manifest" in computed["A1"].value and "manifest" in computed["A2"].value

@@ -117,7 +117,7 @@ def test_multiplier_from_time_inverts_time_from_multiplier(name, m, dial, pickup
 
 
 @settings(max_examples=200, deadline=None)
-@given(name=curve_names, m=multiples, dial=dials, pickup=st.floats(0.1, 1e4))
+@given(name=curve_names, m=st.floats(1.05, 19.9), dial=dials, pickup=st.floats(0.1, 1e4))
 def test_current_from_time_inverts_time_from_current(name, m, dial, pickup):
     curve = CURVES[name]
     t = operate_time_s(curve, m * pickup, pickup, dial)
@@ -130,7 +130,8 @@ def test_current_from_time_inverts_time_from_current(name, m, dial, pickup):
 def test_time_falls_as_current_rises(name, m, dial):
     currents = np.unique(np.round(m, 4)) * 100.0  # distinct by more than rounding
     times = operate_time_s(CURVES[name], currents, 100.0, dial)
-    assert np.all(np.diff(times) < 0.0)
+    below_flat = currents[1:] <= 2000.0  # 20 times pickup: strictly falling below, flat beyond
+    assert np.all(np.diff(times)[below_flat] < 0.0) and np.all(np.diff(times)[~below_flat] <= 0.0)
 
 
 def test_scalar_equals_vector_and_no_operation_at_or_below_pickup():
@@ -261,9 +262,47 @@ def test_bad_history_gives_a_message(t, i, words):
         operate_progress(CURVES["IEC SI"], t, i, 100.0, 1.0)
 
 
-def test_current_beyond_any_curve_gives_a_message():
-    with pytest.raises(InputError, match="operates in no time: check pickup"):
-        operate_progress(CURVES["IEC EI"], [0.0, 1.0], [1e300, 1e300], 100.0, 1.0)  # (1e298)^2 overflows
+# --- the flat part beyond flat_from times pickup (IEC 60255-151: the dependent-time characteristic is
+# defined up to a stated multiple of setting, from memory; 20 by default) -----------------------------
+
+
+@pytest.mark.parametrize("name", sorted(CURVES))
+@pytest.mark.parametrize("flat_from", [20.0, 30.0])
+def test_the_curve_is_flat_beyond_flat_from(name, flat_from):
+    curve = CURVES[name]
+    at_flat = 0.7 * (curve.k / (flat_from**curve.alpha - 1.0) + curve.c)  # Table 1 of IEC 60255-151 / C37.112 at M_flat
+    beyond = operate_time_s(curve, np.array([flat_from, 2 * flat_from, 1e6, 1e300]) * 50.0, 50.0, 0.7, flat_from)
+    assert beyond == pytest.approx(np.full(4, at_flat), rel=1e-12)
+    below = float(operate_time_s(curve, 0.9 * flat_from * 50.0, 50.0, 0.7, flat_from))
+    assert below > at_flat
+
+
+@pytest.mark.parametrize("name", sorted(CURVES))
+def test_no_current_operates_faster_than_the_flat_part(name):
+    curve = CURVES[name]
+    at_flat = float(operate_time_s(curve, 2000.0, 100.0, 0.4))  # 20 times pickup
+    assert current_for_time_a(curve, at_flat, 100.0, 0.4) == pytest.approx(2000.0, rel=1e-9)
+    with pytest.raises(DesignError, match="flat: no current operates that fast"):
+        current_for_time_a(curve, 0.99 * at_flat, 100.0, 0.4)
+
+
+def test_a_current_far_beyond_pickup_operates_in_the_flat_time():
+    progress = operate_progress(CURVES["IEC EI"], [0.0, 1.0], [1e300, 1e300], 100.0, 1.0)
+    flat_s = 80.0 / (20.0**2 - 1.0)  # IEC EI at 20 times pickup, Table 1 of IEC 60255-151
+    assert progress.peak == pytest.approx(1.0 / flat_s, rel=1e-12)
+
+
+@pytest.mark.parametrize("flat_from", [1.0, 0.5, -3.0, 1e4, float("nan"), "x"])
+def test_a_bad_flat_from_gives_a_message(flat_from):
+    with pytest.raises((InputError, InputTypeError), match="flat_from"):
+        operate_time_s(CURVES["IEC SI"], 500.0, 100.0, 0.1, flat_from)
+
+
+def test_the_cell_answers_a_sentence_for_a_time_shorter_than_the_relay_gives():
+    answer = udfs.NW_RELAY_CURRENT("IEC VI", 0.01, 100.0, 0.5)
+    assert isinstance(answer, str) and answer.startswith("Error:") and "no current operates that fast" in answer
+    assert udfs.NW_RELAY_CURRENT("IEC VI", 0.01, 100.0, 0.5, 1000.0) == pytest.approx(
+        100.0 * (13.5 / (0.01 / 0.5) + 1.0), rel=1e-9)  # no flat part below 1000 x: I = Is (k/(t/m) + 1), Table 1
 
 
 # --- the spreadsheet functions ---------------------------------------------------------------

@@ -9,9 +9,9 @@ from __future__ import annotations
 
 from notchwise.addin import SERIES_WARNING
 from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START, MILL, STARTS
-from notchwise.workbooks.schema import EACH, Chart, Input, Link, Literal, Part, Result, Sheet, Sweep, Table
+from notchwise.workbooks.schema import EACH, Chart, Input, Link, Literal, Part, Result, Series, Sheet, Sweep, Table
 
-__all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS"]
+__all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS", "INSTALL_LINE"]
 
 FUNCTION_BASIS = {
     "grading": (
@@ -212,7 +212,7 @@ def _hoist_start_sheet() -> Sheet:
                 "Starting diagram: the time history", "NW_START_HISTORY",
                 (*start, "hoist_history_points", "hoist_mag_curve"), FUNCTION_BASIS["start"],
                 chart=Chart("Hoist start: armature current and speed against time", x=0, y=(1,), y2=(2,),
-                            markers=False),
+                            markers=False, colours=("current", "speed")),
                 parts=(Part("hoist_start_history", 0, 1),),
             ),
             Result(
@@ -234,6 +234,9 @@ def _hoist_start_sheet() -> Sheet:
 def _hoist_protection_sheet() -> Sheet:
     p = HOIST_PROTECTION.inputs
     settings = ("hoist_start_history", "hoist_curve", "hoist_pickup", "hoist_multiplier")
+    relay = "Operating times of the motor relay as set: inverse-time element, thermal element cold and hot"
+    feeder = "Operating time of the feeder relay at the proposed multiplier"
+    two = ("current [A]", "time [s]")
     return Sheet(
         name="Hoist protection",
         title=HOIST_PROTECTION.title,
@@ -270,21 +273,75 @@ def _hoist_protection_sheet() -> Sheet:
                 ("hoist_curve_up", "hoist_pickup_up", "hoist_curve", "hoist_pickup", "hoist_multiplier",
                  "hoist_i_max", None, "hoist_highset", "hoist_highset_delay"),
                 FUNCTION_BASIS["relay"],
+                parts=(
+                    Part("hoist_t_motor_at_i_max", 1, 1, row="motor protection operates in"),
+                    Part("hoist_t_upstream_at_i_max", 1, 1, row="upstream must take at least"),
+                    Part("hoist_multiplier_up", 1, 1, row="upstream multiplier at least"),
+                ),
+            ),
+            Result(
+                "Inverse-time element of the motor relay at the high-set pickup", "NW_RELAY_TIME",
+                ("hoist_curve", "hoist_highset", "hoist_pickup", "hoist_multiplier"),
+                FUNCTION_BASIS["relay"], unit="s", name="hoist_t_at_highset",
             ),
         ),
         sweeps=(
             Sweep(
-                "Operating time of the motor relay as set",
+                relay,
                 Table("hoist_relay_current", "Current", ("current [A]",), [[i] for i in p["sweep_current"]]),
-                (("operating time [s]", "NW_RELAY_TIME", ("hoist_curve", EACH, "hoist_pickup", "hoist_multiplier"),
-                  FUNCTION_BASIS["relay"]),),
-                Chart("Motor relay: operating time against current", x=0, y=(1,)),
+                (
+                    ("inverse-time [s]", "NW_RELAY_TIME", ("hoist_curve", EACH, "hoist_pickup", "hoist_multiplier"),
+                     FUNCTION_BASIS["relay"]),
+                    ("thermal, cold [s]", "NW_THERMAL_TIME",
+                     (EACH, "hoist_i_full_load", "hoist_k_factor", "hoist_tau"), FUNCTION_BASIS["relay"]),
+                    ("thermal, hot after full load [s]", "NW_THERMAL_TIME",
+                     (EACH, "hoist_i_full_load", "hoist_k_factor", "hoist_tau", "hoist_i_full_load"),
+                     FUNCTION_BASIS["relay"]),
+                ),
+            ),
+            Sweep(
+                feeder,
+                Table("hoist_feeder_current", "Current", ("current [A]",), [[i] for i in p["sweep_current_up"]]),
+                (("operating time [s]", "NW_RELAY_TIME",
+                  ("hoist_curve_up", EACH, "hoist_pickup_up", "hoist_multiplier_up"), FUNCTION_BASIS["relay"]),),
+            ),
+        ),
+        points=(
+            Table("hoist_highset_drawn", "High-set element: drop from the inverse-time curve, then its delay", two, [
+                [Link("hoist_highset"), Link("hoist_t_at_highset")],
+                [Link("hoist_highset"), Link("hoist_highset_delay")],
+                [Link("hoist_i_max"), Link("hoist_highset_delay")],
+            ]),
+            Table("hoist_stall_drawn", "Stall: current and the time the motor withstands it", two,
+                  [[Link("hoist_i_stall"), Link("hoist_t_stall")]]),
+            Table("hoist_running_drawn", "Running (full-load) current, drawn across the time axis", two,
+                  [[Link("hoist_i_full_load"), p["drawn_times"][0]], [Link("hoist_i_full_load"), p["drawn_times"][1]]]),
+            Table("hoist_interval_drawn", "Coordination interval at i_max: motor protection, then feeder", two, [
+                [Link("hoist_i_max"), Link("hoist_t_motor_at_i_max")],
+                [Link("hoist_i_max"), Link("hoist_t_upstream_at_i_max")],
+            ]),
+        ),
+        charts=(
+            Chart(
+                "Hoist: time-current coordination diagram", key="coordination", log=True,
+                x_label="current [A]", y_label="time [s]", x_range=p["drawn_currents"], y_range=p["drawn_times"],
+                series=(
+                    Series("motor start (simulated)", "Starting diagram: the time history", 1, 0, "start",
+                           first_row=1),
+                    Series("running current (full load)", "hoist_running_drawn", 0, 1, "running", "dash"),
+                    Series("motor relay, inverse-time", relay, 0, 1, "motor relay"),
+                    Series("motor relay, high-set", "hoist_highset_drawn", 0, 1, "high-set"),
+                    Series("thermal element, cold", relay, 0, 2, "thermal cold"),
+                    Series("thermal element, hot", relay, 0, 3, "thermal hot", "dash"),
+                    Series("stall point (withstand time)", "hoist_stall_drawn", 0, 1, "stall", "points"),
+                    Series("feeder relay upstream", feeder, 0, 1, "feeder relay"),
+                    Series("coordination interval at i_max", "hoist_interval_drawn", 0, 1, "interval"),
+                ),
             ),
         ),
     )
 
 
-#: The workbook's case sheets, in order. Add a case here to add a sheet.
 def _mill_sheet() -> Sheet:
     m = MILL.inputs
     rows = [[name, m[name], unit] for name, unit in (
@@ -390,21 +447,27 @@ def _mill_sheet() -> Sheet:
     )
 
 
+#: The workbook's case sheets, in order. Add a case here to add a sheet.
 SHEETS = (_hoist_sheet(), _hoist_start_sheet(), _hoist_protection_sheet(), _conveyor_sheet(), _contractor_sheet(),
           _mill_sheet())
+
+#: How to install, as the README gives it (a test keeps the two equal).
+INSTALL_LINE = "python -m pip install . (in Notchwise's source folder), then xlwings addin install"
 
 HOW_TO_GO_LIVE = (
     "The figures you see were computed by Notchwise when this file was built and are saved with it, so Excel "
     "shows them without the add-in. LibreOffice recomputes spilled tables on opening (they then read #NAME?); "
     "the Computed cells sheet lists every figure as built. To make the functions live:",
-    "1. Install Python with Notchwise (pip install notchwise, or pip install -e . in its source folder) "
-    "and the xlwings add-in (xlwings addin install).",
+    f"1. Install Python, then Notchwise and the xlwings add-in into it: {INSTALL_LINE}.",
     "2. Save this workbook as an Excel macro-enabled workbook (.xlsm).",
     "3. On the xlwings ribbon tab set Interpreter to that Python, UDF Modules to notchwise.addin.udfs, "
     "then click Import Functions.",
     "4. Press Ctrl+Alt+F9 to recalculate every formula with the live functions.",
     "Without the add-in, editing an input turns the cells that depend on it into #NAME?.",
     "To check a workbook without a spreadsheet program: notchwise audit FILE --report report.html",
+    "For readers without the functions: notchwise freeze FILE COPY.xlsx writes a copy in which every NW_ result is "
+    "its saved value (tables included) with the formula kept as a cell note, so any spreadsheet program shows "
+    "every figure.",
 )
 
 

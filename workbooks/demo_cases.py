@@ -157,6 +157,11 @@ HOIST_PROTECTION = DemoCase(
         "pickup_up": 600.0,
         "i_max": 3600.0,
         "sweep_current": [260.0, 300.0, 350.0, 420.0, 500.0, 700.0, 1000.0, 1500.0, 2200.0, 3000.0, 4000.0],
+        # currents at which the feeder relay is drawn, above its pickup [A]
+        "sweep_current_up": [660.0, 750.0, 900.0, 1200.0, 1600.0, 2200.0, 3000.0, 3600.0],
+        # extent of the coordination diagram: currents [A] and times [s]
+        "drawn_currents": (100.0, 10000.0),
+        "drawn_times": (0.01, 10000.0),
     },
 )
 
