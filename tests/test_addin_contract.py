@@ -237,8 +237,13 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
+    _assert_message(excel, EXAMPLES[name], name, position, bad, words)
+
+
+def _assert_message(excel, example, name, position, bad, words):
+    """``example`` with ``bad`` at ``position`` answers one line of text holding ``words``."""
     udfs, _, conversion = excel
-    raw = list(EXAMPLES[name])
+    raw = list(example)
     raw[position] = bad
     result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
     text = result[0][0] if isinstance(result, list) else result
@@ -349,9 +354,4 @@ def test_wound_rotor_variant_every_bad_argument_gives_a_message(excel, name):
     ],
 )
 def test_wound_rotor_bad_input_message(excel, name, position, bad, words):
-    udfs, _, conversion = excel
-    raw = list(ROTOR_VARIANTS[name])
-    raw[position] = bad
-    result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
-    text = result[0][0] if isinstance(result, list) else result
-    assert text.startswith("Error: ") and words in text, text
+    _assert_message(excel, ROTOR_VARIANTS[name], name, position, bad, words)
