@@ -58,9 +58,10 @@ UNITS = {"v_supply": "V", "r_motor": "ohm", "l_circuit": "H", "inertia": "kg·m�
 
 START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "cut-out current [A]",
                 "speed at cut-out [rpm]", "energy in starting resistance [J]"]
-#: What the figures of the "whole start" row of START_HEADER's table are, column by column.
+#: What the figures of the "whole start" row of START_HEADER's table are, column by column (the last for a wound rotor).
 WHOLE_START_HEADER = ["", "from [s]", "acceleration time [s]", "highest peak current [A]", "",
-                      "final speed [rpm]", "energy in starting resistance, whole start [J]"]
+                      "final speed [rpm]", "energy in starting resistance, whole start [J]",
+                      "highest peak stator current [A]"]
 HISTORY_HEADER = ["time [s]", "current [A]", "speed [rpm]", "motor torque [N·m]"]
 #: The last column of the start's tables for a wound-rotor motor (a DC machine has no stator: its tables stay as they are).
 STATOR_HEADER = "stator current [A]"
