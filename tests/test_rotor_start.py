@@ -220,3 +220,15 @@ class TestThroughTheStartCells:
         whole = _cells("NW_RIDE_THROUGH", history, *arguments)
         assert whole == _cells("NW_RIDE_THROUGH", two, *arguments)
         assert whole != _cells("NW_RIDE_THROUGH", rotor, *arguments)
+
+
+def test_worst_case_counts_a_wound_rotor_stall_by_its_step():
+    """At 90 % supply the standstill torque on step 1 is 0.81 x 6000 = 4860 N·m (T ~ V², Eq. 6.36 of Fitzgerald
+    et al., 6th ed.), below a 5000 N·m load: that corner stalls on step 1, the others run."""
+    from notchwise.formulas.worst_case import sweep_corners
+
+    sweep = sweep_corners(MOTOR, 690.0, SECTIONS, None, MOTOR.inertia_kgm2, 5000.0, -0.1, 0.1, 0.0, "AISI 304",
+                          20.0, 20.0, (3, 1, 1), i_cut_a=I_CUT * 1.5)
+    assert sweep.status == ("stalls", "ran", "ran")
+    assert sweep.status_notch[0] == 1 and "step 1 stalls at standstill" in sweep.reason[0]
+    assert sweep.worst_margin in (1, 2) and np.all(sweep.margin[1:] > 0.0)
