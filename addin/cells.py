@@ -204,6 +204,11 @@ def _rows(value) -> list:
     return [list(row) if isinstance(row, (list, tuple)) else [row] for row in value]
 
 
+def width(value) -> int:
+    """Number of columns of a range (its widest row); 0 for a blank one. [-]"""
+    return max((len(row) for row in _rows(value)), default=0)
+
+
 def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, optional: bool = False):
     """A numeric table from a range, as an array of shape (rows, len(columns)).
 

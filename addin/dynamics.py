@@ -17,6 +17,12 @@ brush_drop     V         optional total brush drop (blank: 0 V)
 shunt_at       A         compound only: shunt-field ampere-turns per pole
 series_turns   turns     compound only: series-field turns per pole
 =============  ========  ==========================================================
+
+A wound-rotor motor (kind ``wound rotor``) is given by the block of
+``NW_GRADE_ROTOR`` (``addin/induction.py``: v_line, frequency, poles, the T
+circuit, e_rotor, inertia) and started quasi-steadily; its sections are
+rotor-side ohm per phase, its currents rotor currents (rotor side), its
+energies three phases, and the tables gain a stator-current column last.
 """
 
 from __future__ import annotations
@@ -29,43 +35,51 @@ from notchwise.formulas.worst_case import sweep_corners
 from .cells import (
     cell_function, column, flag, name_values, number, number_or_column, number_or_table, option, optional_number, spill,
 )
+from .induction import ROTOR_KIND, ROTOR_NAMES
 from .starters import MOTOR_KINDS, machine_from_cells
 
 __all__ = ["NW_START_SIM", "NW_START_HISTORY", "NW_SECTION_HEATING", "NW_WORST_CASE"]
 
-MOTOR_NAMES = (
-    "kind", "v_supply", "r_motor", "l_circuit", "inertia", "k_phi", "mag_speed", "brush_drop", "shunt_at", "series_turns",
-)
-#: The names each kind needs besides the common ones; any other name given for that kind is refused.
+DC_NAMES = ("v_supply", "r_motor", "l_circuit", "inertia")
+#: The names each kind needs besides ``kind`` (one entry per kind of MACHINES); any other name is refused.
 KIND_NAMES = {
-    "shunt": ("k_phi",),
-    "series": ("mag_speed",),
-    "compound": ("mag_speed", "shunt_at", "series_turns"),
+    "shunt": (*DC_NAMES, "k_phi"),
+    "series": (*DC_NAMES, "mag_speed"),
+    "compound": (*DC_NAMES, "mag_speed", "shunt_at", "series_turns"),
+    ROTOR_KIND: tuple(ROTOR_NAMES),
 }
-COMMON_NAMES = ("kind", "v_supply", "r_motor", "l_circuit", "inertia")
+#: Names a kind may give or leave out.
+OPTIONAL_NAMES = {"shunt": ("brush_drop",), "series": ("brush_drop",), "compound": ("brush_drop",), ROTOR_KIND: ()}
+#: The name of each kind's supply voltage.
+SUPPLY_NAMES = {ROTOR_KIND: "v_line"}
+MOTOR_NAMES = tuple(dict.fromkeys(("kind", *(n for kind in KIND_NAMES for n in (*KIND_NAMES[kind], *OPTIONAL_NAMES[kind])))))
 UNITS = {"v_supply": "V", "r_motor": "ohm", "l_circuit": "H", "inertia": "kg·m²", "k_phi": "V/rpm",
-         "mag_speed": "rpm", "brush_drop": "V", "shunt_at": "A", "series_turns": "turns"}
+         "mag_speed": "rpm", "brush_drop": "V", "shunt_at": "A", "series_turns": "turns", **ROTOR_NAMES}
 
 START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "cut-out current [A]",
                 "speed at cut-out [rpm]", "energy in starting resistance [J]"]
-#: What the figures of the "whole start" row of START_HEADER's table are, column by column.
+#: What the figures of the "whole start" row of START_HEADER's table are, column by column (the last for a wound rotor).
 WHOLE_START_HEADER = ["", "from [s]", "acceleration time [s]", "highest peak current [A]", "",
-                      "final speed [rpm]", "energy in starting resistance, whole start [J]"]
+                      "final speed [rpm]", "energy in starting resistance, whole start [J]",
+                      "highest peak stator current [A]"]
 HISTORY_HEADER = ["time [s]", "current [A]", "speed [rpm]", "motor torque [N·m]"]
+#: The last column of the start's tables for a wound-rotor motor (a DC machine has no stator: its tables stay as they are).
+STATOR_HEADER = "stator current [A]"
+STATOR_PEAK_HEADER = "peak stator current [A]"
 HEATING_HEADER = ["section", "R cold [ohm]", "R hot [ohm]", "energy per start [J]", "r.m.s. current [A]",
                   "mean power [W]", "rise per start [K]", "peak cold [A]", "peak hot [A]", "verdict"]
 WORST_HEADER = ["figure", "value", "supply [V]", "tolerance [-]", "grid temperature [°C]", "notch"]
 
 _DOC = {
-    "motor": "Two columns of name/value pairs: kind, v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...",
-    "sections": "Section resistances in the order they are cut out: a column or row [ohm]",
+    "motor": "Name/value pairs: kind; DC: v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...; wound rotor: the block of NW_GRADE_ROTOR",
+    "sections": "Section resistances in the order they are cut out (wound rotor: per phase, rotor side): a column or row [ohm]",
     "load_torque": "Load torque on the motor shaft: a number [N·m] or two columns, speed [rpm] and torque [N·m]; a negative value makes it a gravity load that drives the shaft, even at rest",
-    "switching": "Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
+    "switching": "Switching current of current-limit switching (wound rotor: rotor current) [A], or a column of dwell times, one per section [s]",
     "mag_curve": "Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",
     "alloy": "Grid alloy [-]: " + ", ".join(ALLOYS),
     "ambient": "Optional temperature of the cold grid [°C]; blank: 20 °C",
-    "sections_20c": "Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
+    "sections_20c": "Section resistances at 20 °C in the order they are cut out (wound rotor: per phase, rotor side): a column or row [ohm]",
 }
 #: Help for the four arguments that describe a start, shared by every function here.
 _START_DOCS = {name: _DOC[name] for name in ("motor", "sections", "load_torque", "switching")}
@@ -73,26 +87,26 @@ _GRID_DOCS = {**_START_DOCS, "sections": _DOC["sections_20c"]}
 
 
 def motor_from_cells(motor, mag_curve):
-    """The machine, supply, brush drop, inductance and inertia from a name/value range."""
+    """The machine, supply, brush drop, inductance (None for a wound rotor) and inertia from a name/value range."""
     given = name_values("motor", motor, MOTOR_NAMES)
     if "kind" not in given:
         raise _missing("kind")
     kind = option("motor kind", given["kind"], MOTOR_KINDS)
-    allowed = (*COMMON_NAMES, *KIND_NAMES[kind], "brush_drop")
+    allowed = ("kind", *KIND_NAMES[kind], *OPTIONAL_NAMES[kind])
     for key in given:
         if key not in allowed:
             raise InputError(f"motor row {key} does not apply to a {kind} motor; the names for it are: {', '.join(allowed)}")
-    for key in (*COMMON_NAMES, *KIND_NAMES[kind]):
+    for key in KIND_NAMES[kind]:
         if key not in given:
             raise _missing(key, kind)
     values = {key: number(key, raw, UNITS[key]) for key, raw in given.items() if key not in ("kind", "brush_drop")}
     machine = machine_from_cells("motor kind", kind, {**values, "mag_curve": mag_curve})
     drop = optional_number("brush_drop", given.get("brush_drop"), 0.0, "V")
-    return machine, values["v_supply"], drop, values["l_circuit"], values["inertia"]
+    return machine, values[SUPPLY_NAMES.get(kind, "v_supply")], drop, values.get("l_circuit"), values["inertia"]
 
 
 def _missing(key, kind=None) -> InputError:
-    unit = f" [{UNITS[key]}]" if key in UNITS else ""
+    unit = f" [{UNITS[key]}]" if UNITS.get(key) else ""
     for_kind = f" for a {kind} motor" if kind else ""
     return InputError(f"motor needs a row named {key}{unit}{for_kind}")
 
@@ -127,7 +141,7 @@ def start_from_cells(motor, sections, load_torque, switching, mag_curve):
 )
 def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, headers=None):
     """Time-domain resistor start, one row per notch: start [s], dwell [s], peak and cut-out current [A], speed [rpm], energy [J]; then the run and the whole start."""
-    _, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
+    machine, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
     nan = float("nan")
     rows = [
         [k + 1, result.t_start_s[k], result.dwell_s[k], result.i_peak_a[k], result.i_cut_a[k],
@@ -138,7 +152,11 @@ def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, header
     rows.append(["run", t_last, nan, result.i_peak_run_a, nan, nan, nan])
     rows.append(["whole start", 0.0, result.t_accel_s, max(result.i_peak_a.max(), result.i_peak_run_a), nan,
                  result.n_final_rpm, result.energy_total_j])
-    return spill(START_HEADER, rows, flag("headers", headers, True))
+    if not machine.quasi_steady:
+        return spill(START_HEADER, rows, flag("headers", headers, True))
+    stator = [*result.i_stator_peak_a, result.i_stator_peak_run_a]
+    stator.append(max(stator))
+    return spill([*START_HEADER, STATOR_PEAK_HEADER], [[*row, i] for row, i in zip(rows, stator)], flag("headers", headers, True))
 
 
 @cell_function(
@@ -149,19 +167,21 @@ def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, header
     headers=_DOC["headers"],
 )
 def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=None, headers=None):
-    """Time history of a resistor start at evenly spaced times: time [s], current [A], speed [rpm], motor torque [N·m]."""
+    """Time history of a resistor start at evenly spaced times: time [s], current [A], speed [rpm], motor torque [N·m]; wound rotor: rotor current, stator current [A] last."""
     count = checked_points(number("points", points))  # cheap checks before the simulation
     machine, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
     history = start_history(result, machine, count)
-    rows = zip(history.t_s, history.i_a, history.n_rpm, history.torque_nm)
-    return spill(HISTORY_HEADER, rows, flag("headers", headers, True))
+    columns = [history.t_s, history.i_a, history.n_rpm, history.torque_nm]
+    if history.i_stator_a is None:
+        return spill(HISTORY_HEADER, zip(*columns), flag("headers", headers, True))
+    return spill([*HISTORY_HEADER, STATOR_HEADER], zip(*columns, history.i_stator_a), flag("headers", headers, True))
 
 
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mass", "mag_curve"),
     **_GRID_DOCS,
     alloy=_DOC["alloy"],
-    mass="Mass of resistive element per section: one value for all, or a column [kg]",
+    mass="Mass of resistive element per section (wound rotor: its three phases): one value for all, or a column [kg]",
     starts_per_hour="Starts per hour, for r.m.s. current and mean power [1/h]",
     ambient=_DOC["ambient"],
     hot="Optional hot-grid temperature [°C]; blank: ambient plus each section's rise in one start",
@@ -185,7 +205,7 @@ def NW_SECTION_HEATING(
         **arguments,
     )
     cold = both.cold
-    duty = section_duty(cold.r_section_ohm, cold.i2t_a2s, per_hour, cold.t_accel_s)
+    duty = section_duty(cold.r_section_ohm, cold.i2t_a2s, per_hour, cold.t_accel_s, cold.phases)
     verdicts = rise_verdict(both.rise_k)
     rows = zip(range(1, cold.notches + 1), both.r_cold_ohm, both.r_hot_ohm, duty.energy_j, duty.i_rms_a, duty.power_w,
                both.rise_k, cold.i_peak_a, both.hot.i_peak_a, verdicts)

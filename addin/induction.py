@@ -63,6 +63,11 @@ _DOC = {
 }
 
 
+def wound_rotor_from_values(cells) -> WoundRotorMotor:
+    """A wound-rotor motor from a dict of its block's values (every name of ROTOR_NAMES present); the MACHINES builder."""
+    return WoundRotorMotor(**{key + _FIELDS[unit]: number(key, cells[key], unit) for key, unit in ROTOR_NAMES.items()})
+
+
 def wound_rotor_from_cells(motor) -> WoundRotorMotor:
     """A wound-rotor motor from its name/value range; every name is needed, no other is accepted."""
     given = name_values("motor", motor, ("kind", *ROTOR_NAMES))
@@ -71,7 +76,7 @@ def wound_rotor_from_cells(motor) -> WoundRotorMotor:
             unit = f" [{ROTOR_NAMES[key]}]" if ROTOR_NAMES.get(key) else ""
             raise InputError(f"motor needs a row named {key}{unit}; the names are: kind, {', '.join(ROTOR_NAMES)}")
     option("motor kind", given["kind"], (ROTOR_KIND,))
-    return WoundRotorMotor(**{key + _FIELDS[unit]: number(key, given[key], unit) for key, unit in ROTOR_NAMES.items()})
+    return wound_rotor_from_values(given)
 
 
 @cell_function(

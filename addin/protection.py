@@ -27,7 +27,7 @@ from notchwise.formulas.relays import (
 from notchwise.formulas.thermal import thermal_element, thermal_state, thermal_trip_time_s
 
 from . import CAUTION
-from .cells import at_once, cell_function, each, flag, number, optional_number, spill, table
+from .cells import at_once, cell_function, each, flag, number, optional_number, spill, table, width
 
 __all__ = [
     "NW_RELAY_TIME",
@@ -59,7 +59,7 @@ _DOC = {
     "k_factor": "k: the element carries k x i_base for ever without tripping [-]",
     "tau": "Heating time constant of the motor [s]",
     "i_prior": "Optional steady load before [A]; blank: 0 A, a cold start",
-    "history": "Start: two columns, time [s] and current [A], one row per sample; a text header row is skipped",
+    "history": "Start: time [s] and current [A] columns, a row per sample, a text header skipped; a wound-rotor NW_START_HISTORY's five columns give its stator current",
     "highset": "Optional pickup of the high-set element [A]; blank: none",
     "highset_delay": "Optional definite-time delay of the high-set element [s]; blank: 0 s, instantaneous",
     "headers": "Optional TRUE (default) for a first row of labels with units [-]",
@@ -73,7 +73,15 @@ def _optional_thermal(i_base, k_factor, tau):
     return thermal_element(number("i_base", i_base, "A"), number("k_factor", k_factor), number("tau", tau, "s"))
 
 
+#: NW_START_HISTORY's whole table of a wound-rotor start: the protected current is the stator's, its last column.
+ROTOR_HISTORY = (("time", "rotor current", "speed", "torque", "stator current"), ("s", "A", "rpm", "N·m", "A"))
+
+
 def _history(history):
+    """Time and current: the first two columns, or of five (a wound-rotor start's history) the first and the last."""
+    if width(history) == len(ROTOR_HISTORY[0]):
+        rows = table("history", history, *ROTOR_HISTORY, min_rows=2)
+        return rows[:, 0], rows[:, -1]
     rows = table("history", history, ("time", "current"), ("s", "A"), min_rows=2)
     return rows[:, 0], rows[:, 1]
 

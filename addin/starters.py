@@ -18,6 +18,7 @@ from notchwise.formulas.dc_motor import (
 from notchwise.formulas.errors import require_non_negative, require_positive
 from notchwise.formulas.grading import check_sections, grade_uniform
 
+from .induction import ROTOR_KIND, wound_rotor_from_values
 from .cells import cell_function, each, flag, number, optional_count, optional_number, option, spill, table, column
 
 __all__ = [
@@ -96,14 +97,16 @@ def _compound(cells):
 
 
 #: Every machine kind the cells accept, and how each is built from its cells (r_motor, mag_curve, k_phi,
-#: mag_speed, shunt_at, series_turns as given). A new machine is one line here.
-MACHINES = {"shunt": _shunt, "series": _series, "compound": _compound}
+#: mag_speed, shunt_at, series_turns as given; a wound rotor's block as NW_GRADE_ROTOR reads it). A new machine is one line here.
+MACHINES = {"shunt": _shunt, "series": _series, "compound": _compound, ROTOR_KIND: wound_rotor_from_values}
 MOTOR_KINDS = tuple(MACHINES)
+#: The kinds graded and checked by current through speed continuity (the wound rotor has NW_CHECK_ROTOR).
+CURRENT_GRADED_KINDS = ("shunt", "series", "compound")
 
 
-def machine_from_cells(kind_name, kind, cells):
-    """The machine of ``kind`` (refused with the list of valid kinds) from a dict of its cells."""
-    return MACHINES[option(kind_name, kind, MOTOR_KINDS)](cells)
+def machine_from_cells(kind_name, kind, cells, kinds=MOTOR_KINDS):
+    """The machine of ``kind`` (refused with the list of valid ``kinds``) from a dict of its cells."""
+    return MACHINES[option(kind_name, kind, kinds)](cells)
 
 
 def _graded_table(motor, v_supply, i_peak, i_switch, notches, brush_drop, headers):
@@ -192,7 +195,8 @@ def NW_CHECK_SECTIONS(
 ):
     """Peak current per notch of a given set of starter sections, with a verdict against peak and commutation limits."""
     motor = machine_from_cells(
-        "kind", kind, {"r_motor": r_motor, "mag_curve": mag_curve, "shunt_at": shunt_at, "series_turns": series_turns}
+        "kind", kind, {"r_motor": r_motor, "mag_curve": mag_curve, "shunt_at": shunt_at, "series_turns": series_turns},
+        CURRENT_GRADED_KINDS,
     )
     result = check_sections(
         motor,

@@ -223,6 +223,8 @@ class _DCMachine:
     flux_constant: ClassVar[bool] = False
     #: True where the speed has no bound as the load vanishes.
     runs_away_unloaded: ClassVar[bool] = False
+    #: The current is a state of the circuit: the start goes notch by notch through ``advance_notch``.
+    quasi_steady: ClassVar[bool] = False
 
     def torque_nm(self, i_a):
         """Developed torque at armature current ``i_a`` (no argument checks: see :func:`developed_torque_nm`). [N·m]"""

@@ -72,7 +72,7 @@ References
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import ClassVar
 
 import numpy as np
@@ -174,6 +174,8 @@ class WoundRotorMotor:
     #: The machine interface's name for this kind, and its runaway flag (it has a synchronous speed).
     kind: ClassVar[str] = "wound rotor"
     runs_away_unloaded: ClassVar[bool] = False
+    #: Started quasi-steadily (:mod:`notchwise.formulas.rotor_start`), not notch by notch through ``advance_notch``.
+    quasi_steady: ClassVar[bool] = True
     _v_th: complex = field(init=False, repr=False, compare=False)
     _z_th: complex = field(init=False, repr=False, compare=False)
 
@@ -253,6 +255,30 @@ class WoundRotorMotor:
     def r_ohm(self) -> float:
         """The machine's own resistance in the starter's circuit, as the sections are given: rotor side. [ohm]"""
         return self.r_rotor_side_ohm
+
+    def require_dynamics(self) -> None:
+        """Nothing to refuse: the circuit and the inertia are all the start needs (``Machine.require_dynamics``)."""
+
+    def with_supply(self, v_line_v: float, inertia_kgm2: float) -> WoundRotorMotor:
+        r"""The same machine on another supply and inertia, its stator-to-rotor ratio kept.
+
+        Torque goes with the square of the supply voltage (Eq. 6.36 of [1]_, :math:`T \propto V_{th}^2`);
+        the rotor volts scale with the stator's, so that :math:`a = \sqrt3 V_{th}/E_2` (a turns ratio) stays.
+
+        Parameters
+        ----------
+        v_line_v : float
+            Stator line voltage. [V]
+        inertia_kgm2 : float
+            Inertia of motor and load referred to the motor shaft. [kg·m²]
+
+        Returns
+        -------
+        WoundRotorMotor
+            The machine at that supply. [-]
+        """
+        v = require_positive("v_line", v_line_v, "V")
+        return replace(self, v_line_v=v, e_rotor_v=self.e_rotor_v * v / self.v_line_v, inertia_kgm2=inertia_kgm2)
 
     def slip(self, n_rpm):
         """Slip at shaft speed ``n_rpm``, :math:`s = 1 - n/n_s`. [-]"""
@@ -428,7 +454,7 @@ class WoundRotorMotor:
                 f"the rotor current {quantity(i_rotor_a, 'A')} is more than the rotor draws short-circuited at "
                 f"standstill ({quantity(self.ratio * self.v_thevenin_v / math.hypot(z_th.real, x_sum), 'A')})"
             )
-        return math.sqrt(reach**2 - x_sum**2) - z_th.real
+        return reach * math.sqrt(1.0 - (x_sum / reach) ** 2) - z_th.real  # sqrt(reach² - X²), no overflow for a tiny current
 
     # --- what the starter asks of the machine ------------------------------------------------------------------
 

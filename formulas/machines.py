@@ -64,6 +64,18 @@ class Machine(Protocol):
     runs_away_unloaded : bool
         True where the speed has no bound as the load falls to zero (a
         series motor): a start against a load that vanishes is refused.
+    quasi_steady : bool
+        False where the current is a state of the circuit (the DC machines):
+        the start goes notch by notch through ``advance_notch``. True where
+        the circuit is taken steady at every instant and the shaft speed is
+        the one state (the wound-rotor motor): :func:`notchwise.formulas.start_sim.simulate_start`
+        hands the start to :func:`notchwise.formulas.rotor_start.simulate_rotor_start`
+        (``with_supply(v_line_v, inertia_kgm2)`` gives the machine at the
+        corner's supply), and such a machine needs none of ``relative_flux``,
+        ``torque_nm``, ``speed_rpm``, ``mechanical_time_constant_s`` or
+        ``advance_notch`` (it grades in its own module,
+        :func:`notchwise.formulas.induction_motor.grade_rotor`). Its result
+        carries ``phases`` (3) and the stator current.
 
     Methods to provide
     ------------------
@@ -117,6 +129,7 @@ class Machine(Protocol):
     kind: ClassVar[str]
     r_ohm: float
     runs_away_unloaded: ClassVar[bool]
+    quasi_steady: ClassVar[bool]
 
     @property
     def i_max_a(self) -> float: ...

@@ -116,20 +116,23 @@ ALLOYS = {
 TEMPERATURE_RISE_LIMITS_K = {"short time": 760.0, "extended": 610.0, "continuous": 385.0}
 
 
-def section_energy_j(r_section_ohm, i2t_a2s) -> np.ndarray:
+def section_energy_j(r_section_ohm, i2t_a2s, phases: int = 1) -> np.ndarray:
     r"""Energy each section absorbs in one start.
 
     Parameters
     ----------
     r_section_ohm : array_like
-        Sections in the order they are cut out. [ohm]
+        Sections in the order they are cut out (per phase). [ohm]
     i2t_a2s : array_like
-        :math:`\int i^2 dt` over each notch (``StartResult.i2t_a2s``). [A²·s]
+        :math:`\int i^2 dt` over each notch in one phase (``StartResult.i2t_a2s``). [A²·s]
+    phases : int
+        Phases of the section, all carrying that current: 1 for a DC
+        armature circuit, 3 for a wound rotor (``result.phases``). [-]
 
     Returns
     -------
     numpy.ndarray
-        :math:`E_s = R_s \sum_{k\le s} \int i^2 dt`. [J]
+        :math:`E_s = p\,R_s \sum_{k\le s} \int i^2 dt` with :math:`p` phases. [J]
 
     Examples
     --------
@@ -144,7 +147,7 @@ def section_energy_j(r_section_ohm, i2t_a2s) -> np.ndarray:
     i2t = as_float_array("i2t", i2t_a2s, "A²·s")
     if r.size != i2t.size:
         raise InputError(f"r_section has {r.size} entries but i2t has {i2t.size}")
-    return r * np.cumsum(i2t)  # section s is in circuit on notches 1..s
+    return phases * r * np.cumsum(i2t)  # section s is in circuit on notches 1..s
 
 
 @dataclass(frozen=True)
@@ -166,13 +169,13 @@ class SectionDuty:
     power_w: np.ndarray
 
 
-def section_duty(r_section_ohm, i2t_a2s, starts_per_hour: float, start_time_s: float) -> SectionDuty:
-    r"""r.m.s. current and mean power of each section at a start rate.
+def section_duty(r_section_ohm, i2t_a2s, starts_per_hour: float, start_time_s: float, phases: int = 1) -> SectionDuty:
+    r"""r.m.s. current (per phase) and mean power (all phases) of each section at a start rate.
 
     Parameters
     ----------
-    r_section_ohm, i2t_a2s : array_like
-        As for :func:`section_energy_j`. [ohm], [A²·s]
+    r_section_ohm, i2t_a2s, phases : array_like
+        As for :func:`section_energy_j`. [ohm], [A²·s], [-]
     starts_per_hour : float
         Starts per hour, above zero. [1/h]
     start_time_s : float
@@ -203,7 +206,7 @@ def section_duty(r_section_ohm, i2t_a2s, starts_per_hour: float, start_time_s: f
             f"{z:g} starts per hour of {quantity(duration, 's')} each do not fit in an hour: "
             f"at most {3600.0 / duration:.4g} are possible"
         )
-    energy = section_energy_j(r_section_ohm, i2t_a2s)
+    energy = section_energy_j(r_section_ohm, i2t_a2s, phases)
     i2t_in_circuit = np.cumsum(as_float_array("i2t", i2t_a2s, "A²·s"))
     return SectionDuty(energy, np.sqrt(z / 3600.0 * i2t_in_circuit), z / 3600.0 * energy)  # r.m.s. over the hour
 
@@ -367,7 +370,7 @@ def cold_hot_start(
     alloy : str or Alloy
         Grid alloy, a name from :data:`ALLOYS`. [-]
     mass_kg : float or array_like
-        Mass of resistive element of each section (one value for all, or one per section). [kg]
+        Mass of resistive element of each section, all its phases (one value for all, or one per section). [kg]
     ambient_c : float
         Temperature of the cold grid. [°C]
     hot_c : float, optional
@@ -400,7 +403,7 @@ def cold_hot_start(
     r_cold = resistance_at_c(sections, ambient, alloy)
     run = dict(brush_drop_v=brush_drop_v, i_cut_a=i_cut_a, dwell_s=dwell_s)
     cold = simulate_start(motor, v_supply_v, r_cold, l_circuit_h, inertia_kgm2, load, **run)
-    rise = np.atleast_1d(adiabatic_rise_k(section_energy_j(cold.r_section_ohm, cold.i2t_a2s), masses, alloy))
+    rise = np.atleast_1d(adiabatic_rise_k(section_energy_j(cold.r_section_ohm, cold.i2t_a2s, cold.phases), masses, alloy))
     hot_temperature = ambient + rise if hot is None else np.full(sections.size, hot)
     r_hot = resistance_at_c(sections, hot_temperature, alloy)
     hot = simulate_start(motor, v_supply_v, r_hot, l_circuit_h, inertia_kgm2, load, **run)

@@ -62,27 +62,33 @@ References
    6th ed., McGraw-Hill, 2003, sec. 6.4 (power and torque, Eqs. 6.25-6.27).
 .. [3] M. Abramowitz and I. A. Stegun, *Handbook of Mathematical Functions*,
    NBS, 1964, 25.4.29 (Gauss-Legendre quadrature).
+.. [4] F. N. Fritsch and R. E. Carlson, "Monotone piecewise cubic
+   interpolation," *SIAM J. Numer. Anal.*, vol. 17, no. 2, pp. 238-246, 1980.
 """
 
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, field
+from typing import ClassVar
 
 import numpy as np
+from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq
 
-from .errors import DesignError, InputError, as_float_array, quantity, require_positive
+from .errors import InputError, as_float_array, quantity, require_positive
 from .grading import notch_resistances_ohm
 from .induction_motor import WoundRotorMotor, rotor_sections
 from .start_load import LoadTorque, load_torque
-from .start_notch import SETTLED_FRACTION
+from .start_notch import SETTLED_FRACTION, StartIncomplete
 
 __all__ = ["RotorStart", "simulate_rotor_start", "QUADRATURE_POINTS"]
 
 #: Gauss-Legendre points per step. [-]
 QUADRATURE_POINTS = 48
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_POINTS)
+#: Gauss-Legendre panels per step on which a history inverts t(s). [-]
+HISTORY_PANELS = 64
 #: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start.
 _SCAN = np.linspace(1.0, 0.0, 513)
 
@@ -105,14 +111,21 @@ class RotorStart:
         Speed and slip at each cut-out. [rpm], [-]
     energy_rotor_j : numpy.ndarray
         Energy dissipated in the whole rotor circuit (own and external resistance, three phases) on each step. [J]
-    energy_step_j : numpy.ndarray
+    energy_notch_j : numpy.ndarray
         Energy dissipated in the external rotor resistance, three phases, on each step. [J]
+    i2t_a2s : numpy.ndarray
+        :math:`\\int I_2^2\\,dt` of the rotor current (rotor side) in one phase over each step,
+        :math:`E_{rotor}/(3 R_k)`; a section's energy is ``phases`` times its resistance times this. [A²·s]
+    t_cut_nm : numpy.ndarray
+        Motor torque at each cut-out. [N·m]
     i_peak_run_a, i_stator_peak_run_a : float
         Rotor and stator current just after the last cut (the run's highest). [A]
     t_accel_s : float
         Acceleration time (module docstring). [s]
     n_final_rpm : float
         Steady speed on the rotor's own resistance at the load. [rpm]
+    steps : tuple
+        Each step (and the run) with the slip at its end, for :meth:`sampled`.
     """
 
     r_total_ohm: np.ndarray
@@ -125,11 +138,16 @@ class RotorStart:
     n_cut_rpm: np.ndarray
     s_cut: np.ndarray
     energy_rotor_j: np.ndarray
-    energy_step_j: np.ndarray
+    energy_notch_j: np.ndarray
+    i2t_a2s: np.ndarray
+    t_cut_nm: np.ndarray
     i_peak_run_a: float
     i_stator_peak_run_a: float
     t_accel_s: float
     n_final_rpm: float
+    steps: tuple = field(repr=False, compare=False)
+    #: The rotor circuit has three phases: a section's energy is three times its resistance times ``i2t_a2s``.
+    phases: ClassVar[int] = 3
 
     @property
     def notches(self) -> int:
@@ -139,7 +157,50 @@ class RotorStart:
     @property
     def energy_total_j(self) -> float:
         """Energy dissipated in the external rotor resistance over the whole start, three phases. [J]"""
-        return float(np.sum(self.energy_step_j))
+        return float(np.sum(self.energy_notch_j))
+
+    @property
+    def t_end_s(self) -> float:
+        """End of the start: the acceleration time. [s]"""
+        return self.t_accel_s
+
+    def sampled(self, times_s):
+        r"""Rotor current, speed, torque, stator current and step at the times ``times_s``.
+
+        The slip at a time is :math:`t(s)` of the step (module docstring)
+        inverted: the time integral tabulated on a grid of :math:`u`
+        (:data:`HISTORY_PANELS` Gauss-Legendre panels, the load table's corners
+        among their ends) and :math:`u(t)` interpolated monotonically
+        (Fritsch-Carlson, [4]_). Where a cut falls at a sample, the sample
+        shows the step that begins there.
+
+        Parameters
+        ----------
+        times_s : array_like
+            Times from closing the stator contactor, 0 to :attr:`t_end_s`. [s]
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            Rotor current (rotor side) [A], speed [rpm], motor torque [N·m],
+            stator current [A], step in circuit (N+1 for the run) [-].
+        """
+        times = np.asarray(times_s, dtype=float)
+        slip = np.empty(times.size)
+        r_ref = np.empty(times.size)
+        which = np.empty(times.size, dtype=int)
+        starts = np.append(self.t_start_s, self.t_start_s[-1] + self.dwell_s[-1])
+        index = np.clip(np.searchsorted(starts, times, side="right") - 1, 0, len(self.steps) - 1)
+        for k, (step, s_end) in enumerate(self.steps):
+            mask = index == k
+            if not mask.any():
+                continue
+            slip[mask] = step.slip_at(times[mask] - starts[k], s_end)
+            r_ref[mask], which[mask] = step.r, k + 1
+        motor = self.steps[0][0].motor
+        currents = motor.currents(slip, r_ref)
+        torque = motor.torque_at_slip_nm(slip, r_ref)
+        return currents.rotor_a, motor.speed_at_slip_rpm(slip), np.asarray(torque, dtype=float), currents.stator_a, which
 
 
 class _Step:
@@ -182,6 +243,26 @@ class _Step:
         dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
         return float(weights @ dt_du), self.motor.omega_sync_rad_s * float(weights @ (dt_du * s * torque))
 
+    def slip_at(self, elapsed_s, s_end: float):
+        """Slips at the times ``elapsed_s`` from the step's start, up to the step's end at ``s_end`` (:meth:`RotorStart.sampled`). [-]"""
+        if s_end >= self.s_a:
+            return np.full(np.shape(elapsed_s), self.s_a)
+        width = self.s_a - self.s_eq
+        ends = np.linspace(math.log((s_end - self.s_eq) / width), 0.0, HISTORY_PANELS + 1)
+        if not self.constant_load:
+            corners = self.motor.slip(self.load.speed_rpm)
+            inside = corners[(corners > s_end) & (corners < self.s_a)]
+            ends = np.union1d(ends, np.log((inside - self.s_eq) / width))
+        half = 0.5 * np.diff(ends)[:, None]
+        u = ends[:-1, None] + half * (1.0 + _NODES[None, :])
+        s = self.s_eq + width * np.exp(u)
+        torque = self.motor.torque_at_slip_nm(s, self.r)
+        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
+        panel_t = np.sum(half * _WEIGHTS[None, :] * dt_du, axis=1)
+        elapsed_at_ends = np.concatenate((np.cumsum(panel_t[::-1])[::-1], [0.0]))  # t(u) = integral from u to 0
+        u_of_t = PchipInterpolator(elapsed_at_ends[::-1], ends[::-1])
+        return self.s_eq + width * np.exp(u_of_t(np.clip(elapsed_s, 0.0, elapsed_at_ends[0])))
+
     def slip_after(self, dwell: float) -> float:
         """Slip reached after ``dwell`` seconds on this step (Brent's method on the time integral). [-]"""
         if dwell == 0.0:
@@ -223,9 +304,14 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     ------
     InputError
         Both or neither switching given; dwells not one per section or negative.
+    StartIncomplete
+        (a DesignError) ``stalls``: standstill torque at or below the load, a
+        step that stalls, or a cut after which the motor would slow down; its
+        ``notch`` names the step (None for the run).
     DesignError
         Standstill torque at or below the load, a step that stalls, or a cut
-        after which the motor would slow down.
+        after which the motor would slow down, or
+        ``i_cut_a`` above the rotor's short-circuit current at standstill.
 
     Examples
     --------
@@ -243,7 +329,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     (2.71, 988.0)
     """
     sections = rotor_sections(sections_ohm)
-    torque_load = load_torque(load)
+    torque_load = load if isinstance(load, LoadTorque) else load_torque(load)
     if (i_cut_a is None) == (dwell_s is None):
         raise InputError("give either i_cut (current-limit switching) or dwell (definite-time switching), not both or neither")
     if i_cut_a is not None:
@@ -265,10 +351,12 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         step = _Step(motor, torque_load, float(r_ref[k]), s_a)
         net = float(step.net_nm(s_a))
         if net <= 0.0:
-            where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(float(motor.speed_at_slip_rpm(s_a)), 'rpm')}: the torque"
-            raise DesignError(
-                f"step {k + 1} stalls {where} ({quantity(net + float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')}) "
-                f"is not above the load ({quantity(float(torque_load.at(motor.speed_at_slip_rpm(s_a))), 'N·m')})"
+            speed = float(motor.speed_at_slip_rpm(s_a))
+            where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(speed, 'rpm')}: the torque"
+            raise StartIncomplete(
+                "stalls", k + 1 if k < count else None, speed,
+                f"step {k + 1} stalls {where} ({quantity(net + float(torque_load.at(speed)), 'N·m')}) "
+                f"is not above the load ({quantity(float(torque_load.at(speed)), 'N·m')})"
             )
         steps.append(step)
         if k == count:
@@ -276,7 +364,8 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         if i_cut_a is not None:
             s_b = min(s_a, step.r / x_cut)
             if s_b <= step.s_eq:
-                raise DesignError(
+                raise StartIncomplete(
+                    "stalls", k + 1, float(motor.speed_at_slip_rpm(step.s_eq)),
                     f"step {k + 1} stalls: the torque meets the load at {quantity(float(motor.speed_at_slip_rpm(step.s_eq)), 'rpm')} "
                     f"before the rotor current falls to i_cut ({quantity(i_cut_a, 'A')}): raise i_cut or lighten the load"
                 )
@@ -292,6 +381,7 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     at_start = motor.currents(s_starts, r_ref)
     at_end = motor.currents(np.append(s_cut, run.s_eq), r_ref)
     stator_peak = np.maximum(at_start.stator_a, at_end.stator_a)  # falls then rises once along a step (induction_motor.check_rotor)
+    i2t = e_rotor / (3.0 * r[:-1])  # E_rotor = 3 R_k int I_2^2 dt, rotor side
     return RotorStart(
         r_total_ohm=r[:-1],
         r_section_ohm=sections,
@@ -303,9 +393,12 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
         n_cut_rpm=motor.speed_at_slip_rpm(s_cut),
         s_cut=s_cut,
         energy_rotor_j=e_rotor,
-        energy_step_j=e_rotor * (1.0 - motor.r_rotor_side_ohm / r[:-1]),
+        energy_notch_j=3.0 * (r[:-1] - motor.r_rotor_side_ohm) * i2t,
+        i2t_a2s=i2t,
+        t_cut_nm=np.asarray(motor.torque_at_slip_nm(s_cut, r_ref[:-1]), dtype=float),
         i_peak_run_a=float(at_start.rotor_a[-1]),
         i_stator_peak_run_a=float(stator_peak[-1]),
         t_accel_s=float(t_accel),
         n_final_rpm=float(motor.speed_at_slip_rpm(run.s_eq)),
+        steps=tuple(zip(steps, (*s_cut, min(s_settled, run.s_a)))),
     )

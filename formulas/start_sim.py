@@ -81,6 +81,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import ClassVar
 
 import numpy as np
 from scipy.optimize import brentq
@@ -89,6 +90,7 @@ from .dc_motor import effective_supply_v
 from .errors import InputError, as_float_array, choose, quantity, require_count, require_positive
 from .grading import checked_sections, notch_resistances_ohm
 from .machines import Machine
+from .rotor_start import simulate_rotor_start
 from .start_load import LoadTorque, load_torque
 from .start_notch import (
     MAX_STEPS_PER_NOTCH, SETTLED_FRACTION, TIME_CAP_FACTOR, NotchCircuit, NotchRecord, StartIncomplete,
@@ -166,6 +168,8 @@ class StartResult:
     n_final_rpm: float
     i_final_a: float
     segments: tuple
+    #: One armature circuit: a section's energy is its resistance times ``i2t_a2s``.
+    phases: ClassVar[int] = 1
 
     @property
     def notches(self) -> int:
@@ -316,9 +320,12 @@ def simulate_start(
 
     Returns
     -------
-    StartResult
-        Currents, speeds, integrals and times per notch, and the run after
-        the last cut. [-]
+    StartResult or RotorStart
+        A quasi-steady machine (``Machine.quasi_steady``, the wound-rotor
+        motor) is started by :func:`notchwise.formulas.rotor_start.simulate_rotor_start`
+        at ``v_supply_v`` less ``brush_drop_v`` (its rotor current in the
+        current fields, three phases, ``l_circuit_h`` not used) and gives its
+        :class:`~notchwise.formulas.rotor_start.RotorStart`. [-]
 
     Raises
     ------
@@ -355,11 +362,13 @@ def simulate_start(
     """
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
     sections = checked_sections(sections_ohm)
-    l_h = require_positive("l_circuit", l_circuit_h, "H")
     j = require_positive("inertia", inertia_kgm2, "kg·m²")
     motor.require_dynamics()
     load = load_torque(load, signed=True)
     i_cut, dwells = _switching(i_cut_a, dwell_s, sections.size)
+    if motor.quasi_steady:  # the circuit steady at every instant, the shaft the one state (Machine.quasi_steady)
+        return simulate_rotor_start(motor.with_supply(v_eff, j), sections, load, i_cut, dwells if i_cut is None else None)
+    l_h = require_positive("l_circuit", l_circuit_h, "H")
     method = choose("method", method, ("auto", "integrate"))
     rtol = require_positive("rtol", rtol)
 
@@ -457,6 +466,9 @@ class History:
         Developed motor torque. [N·m]
     notch : numpy.ndarray
         Notch in circuit at each time; N+1 is the run on the motor alone. [-]
+    i_stator_a : numpy.ndarray or None
+        Stator current of a wound-rotor motor (``i_a`` is then its rotor
+        current, rotor side); None for a DC machine, which has no stator. [A]
     """
 
     t_s: np.ndarray
@@ -464,6 +476,7 @@ class History:
     n_rpm: np.ndarray
     torque_nm: np.ndarray
     notch: np.ndarray
+    i_stator_a: np.ndarray | None = None
 
 
 def start_history(result: StartResult, motor, points: int = 200, t_end_s: float | None = None) -> History:
@@ -471,7 +484,7 @@ def start_history(result: StartResult, motor, points: int = 200, t_end_s: float 
 
     Parameters
     ----------
-    result : StartResult
+    result : StartResult or RotorStart
         From :func:`simulate_start`. [-]
     motor : Machine
         The same machine, for the torque (:mod:`notchwise.formulas.machines`). [-]
@@ -504,6 +517,9 @@ def start_history(result: StartResult, motor, points: int = 200, t_end_s: float 
     t_end = result.t_end_s if t_end_s is None else require_positive("t_end", t_end_s, "s")
     t_end = min(t_end, result.t_end_s)
     times = np.linspace(0.0, t_end, count)
+    if motor.quasi_steady:
+        rotor, speed, torque, stator, step = result.sampled(times)
+        return History(times, rotor, speed, torque, step, stator)
     current = np.empty(count)
     speed = np.empty(count)
     notch = np.empty(count, dtype=int)

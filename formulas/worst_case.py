@@ -8,7 +8,10 @@ resistance is
 
 .. math:: R_s = R_{s,20}\,(1 + \tau)\,[1 + \alpha(\theta - 20)] .
 
-Each corner is simulated in time (:func:`formulas.start_sim.simulate_start`).
+Each corner is simulated in time (:func:`formulas.start_sim.simulate_start`);
+a wound-rotor motor (``Machine.quasi_steady``) is started at the corner's
+supply, its torque going with the square of the voltage, and its margin uses
+the torque at each cut from its start.
 Two figures are kept: the highest current of the start, and the cut-out margin,
 the least over the notches of the accelerating torque left at the instant of
 cut-out as a fraction of the motor torque,
@@ -229,7 +232,7 @@ def sweep_corners(
     status = ["ran"] * v.size
     status_notch = np.zeros(v.size, dtype=int)
     reason = [""] * v.size
-    if i_cut_a is not None:
+    if i_cut_a is not None and not motor.quasi_steady:  # a quasi-steady machine's margin comes from its start
         margins = _margin(motor, v_eff, r_notch, load, as_float("cut-out current", i_cut_a, "A"))
         least = np.min(margins, axis=1)
         for c in np.nonzero(~(least > 0.0))[0]:  # these stall by the criterion: no need to simulate them
@@ -250,7 +253,9 @@ def sweep_corners(
             margins[c] = np.nan
             continue
         peaks[c] = max(result.i_peak_a.max(), result.i_peak_run_a)
-        if i_cut_a is None:
+        if motor.quasi_steady:  # torque at each cut from the start itself, at this corner's supply
+            margins[c] = (result.t_cut_nm - load.at(result.n_cut_rpm)) / result.t_cut_nm
+        elif i_cut_a is None:
             margins[c] = _margin(motor, v_eff[c:c + 1], r_notch[c], load, result.i_cut_a, result.n_cut_rpm[None, :])[0]
     ran = np.array([s == "ran" for s in status], dtype=bool)
     with np.errstate(invalid="ignore"):

@@ -203,6 +203,13 @@ def rotor_start_section() -> None:
     for name, arguments in cases.items():
         ms = median_ms(lambda: simulate_rotor_start(ROTOR, ROTOR_SECTIONS, **arguments))
         print(f"5-step rotor start, {name}: {ms:.3f} ms median (target 2 ms)")
+    sections = [[float(r)] for r in ROTOR_SECTIONS]
+    ms = median_ms(lambda: udfs.NW_START_SIM(ROTOR_ROWS, sections, 1000.0, 330.0, None, None))
+    print(f"5-step rotor start through NW_START_SIM: {ms:.3f} ms median (target 2 ms)")
+    for name, load in (("constant load", 1000.0), ("load table", table)):
+        sweep_s = median_ms(lambda: sweep_corners(ROTOR, 690.0, ROTOR_SECTIONS, None, 60.0, load, -0.1, 0.1, 0.05,
+                                                  "AISI 304", 20.0, 300.0, (10, 10, 10), i_cut_a=330.0), repeat=3) / 1e3
+        print(f"wound-rotor worst case, 1000 corners, {name}: {sweep_s:.2f} s median (target 2 s)")
 
 
 def compound_motor() -> CompoundMotor:

@@ -243,8 +243,13 @@ def test_any_bad_argument_gives_a_message_never_an_exception(excel, data):
     ],
 )
 def test_bad_input_message_names_the_argument_and_limit(excel, name, position, bad, words):
+    _assert_message(excel, EXAMPLES[name], name, position, bad, words)
+
+
+def _assert_message(excel, example, name, position, bad, words):
+    """``example`` with ``bad`` at ``position`` answers one line of text holding ``words``."""
     udfs, _, conversion = excel
-    raw = list(EXAMPLES[name])
+    raw = list(example)
     raw[position] = bad
     result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
     text = result[0][0] if isinstance(result, list) else result
@@ -306,3 +311,65 @@ def test_readme_lists_every_function_with_its_arguments():
         params = inspect.signature(getattr(plain, name)).parameters.values()
         wanted = ", ".join(p.name if p.default is p.empty else f"[{p.name}]" for p in params)
         assert listed.get(name) == wanted, f"README lists {name}({listed.get(name)}); the function is {name}({wanted})"
+
+
+#: Wound-rotor variants of the start-in-time functions (EXAMPLES keeps one example per function).
+ROTOR_VARIANTS = {
+    "NW_START_SIM": (ROTOR_MOTOR, ROTOR_SECTIONS, 1000.0, 400.0, M, M),
+    "NW_START_HISTORY": (ROTOR_MOTOR, ROTOR_SECTIONS, ((0.0, 800.0), (1000.0, 2200.0)), ((0.5,), (0.4,), (0.3,), (0.2,), (0.2,)), 20.0, M, M),
+    "NW_SECTION_HEATING": (ROTOR_MOTOR, ROTOR_SECTIONS, 1000.0, 400.0, "AISI 304", 30.0, 6.0, M, M, M, M),
+    "NW_WORST_CASE": (ROTOR_MOTOR, ROTOR_SECTIONS, 1000.0, 400.0, -0.1, 0.1, 0.05, "AISI 304", 200.0, 2.0, M, M, M),
+}
+
+
+@pytest.mark.parametrize("name", sorted(ROTOR_VARIANTS))
+def test_wound_rotor_variant_gives_numbers_with_the_stator_last(excel, name):
+    udfs, _, conversion = excel
+    result = call_like_excel(conversion, getattr(udfs, name), ROTOR_VARIANTS[name])
+    assert _excel_types_only(result)
+    flat = [c for row in result for c in row]
+    assert not any(isinstance(c, str) and c.startswith("Error") for c in flat), result
+    if name in ("NW_START_SIM", "NW_START_HISTORY"):
+        assert "stator current [A]" in result[0][-1]
+
+
+@pytest.mark.parametrize("name", sorted(ROTOR_VARIANTS))
+def test_wound_rotor_variant_every_bad_argument_gives_a_message(excel, name):
+    udfs, _, conversion = excel
+    for position in range(len(ROTOR_VARIANTS[name])):
+        for bad in BAD_VALUES:
+            raw = list(ROTOR_VARIANTS[name])
+            raw[position] = bad
+            result = call_like_excel(conversion, getattr(udfs, name), tuple(raw))
+            assert _excel_types_only(result), (position, bad, result)
+            text = result[0][0] if isinstance(result, list) else result
+            if isinstance(text, str) and text.startswith("Error"):
+                assert "internal fault" not in text, (position, bad, text)
+
+
+@pytest.mark.parametrize(
+    "name, position, bad, words",
+    [
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:4] + (("r_stator", "abc"),) + ROTOR_MOTOR[5:], "r_stator ('abc') is not a number in ohm"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:4] + (("r_stator", None),) + ROTOR_MOTOR[5:], "r_stator is empty"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:7] + (("r_rotor", -0.025),) + ROTOR_MOTOR[8:], "r_rotor (-0.025 ohm) must be above zero"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:10] + (("inertia", 0.0),), "inertia (0 kg·m²) must be above zero"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:2] + (("frequency", float("nan")),) + ROTOR_MOTOR[3:], "frequency (nan) must be a finite number in Hz"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[:-1], "motor needs a row named inertia [kg·m²] for a wound rotor motor"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR + (("l_circuit", 0.01),), "motor row l_circuit does not apply to a wound rotor motor; the names for it are: kind, v_line"),
+        ("NW_START_SIM", 0, (("kind", "slip ring"),) + ROTOR_MOTOR[1:], "motor kind ('slip ring') must be one of: shunt, series, compound, wound rotor"),
+        ("NW_START_SIM", 0, ROTOR_MOTOR[1:], "motor needs a row named kind"),
+        ("NW_START_SIM", 1, ((0.3,), (-0.1,)), "sections entry 2 (-0.1 ohm) must be above zero"),
+        ("NW_START_SIM", 2, 9000.0, "above the breakdown torque (8050 N·m)"),
+        ("NW_START_SIM", 2, 7000.0, "step 1 stalls at standstill"),
+        ("NW_START_SIM", 2, ((0.0, 1.0, 2.0),), "load_torque"),
+        ("NW_START_SIM", 3, 0.0, "must be above zero"),
+        ("NW_START_SIM", 3, 4000.0, "more than the rotor draws short-circuited at standstill"),
+        ("NW_START_SIM", 3, ((0.5,), (0.4,)), "dwell has 2 entries but sections has 5"),
+        ("NW_START_HISTORY", 4, 1.0, "points (1) must be"),
+        ("NW_SECTION_HEATING", 5, -3.0, "mass"),
+        ("NW_WORST_CASE", 6, 0.9, "tolerance (0.9) must be at most 0.5"),
+    ],
+)
+def test_wound_rotor_bad_input_message(excel, name, position, bad, words):
+    _assert_message(excel, ROTOR_VARIANTS[name], name, position, bad, words)

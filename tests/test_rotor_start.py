@@ -8,6 +8,7 @@ from scipy.integrate import solve_ivp
 
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.induction_motor import WoundRotorMotor, grade_rotor
+from notchwise.formulas.resistors import resistance_at_c
 from notchwise.formulas.rotor_start import simulate_rotor_start
 
 #: A motor of our own making (not any real machine), as in tests/test_induction_motor.py.
@@ -52,7 +53,7 @@ class TestAgainstSolveIvp:
         dwell, n_cut, energy = reference(SECTIONS, load, i_cut=I_CUT)
         np.testing.assert_allclose(result.dwell_s, dwell, rtol=1e-7)
         np.testing.assert_allclose(result.n_cut_rpm, n_cut, rtol=1e-9)
-        np.testing.assert_allclose(result.energy_step_j, energy, rtol=1e-7)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-7)
 
     def test_definite_time_start(self):
         dwells = [0.9, 0.5, 0.3, 0.2, 0.15]
@@ -60,7 +61,7 @@ class TestAgainstSolveIvp:
         _, n_end, energy = reference(SECTIONS, LOAD_TABLE, dwells=dwells)
         np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-9)
         np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-7)
-        np.testing.assert_allclose(result.energy_step_j, energy, rtol=1e-6)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-6)
 
 
 class TestEnergyLaw:
@@ -73,7 +74,7 @@ class TestEnergyLaw:
         law = 0.5 * MOTOR.inertia_kgm2 * MOTOR.omega_sync_rad_s**2 * (s[:-1] ** 2 - s[1:] ** 2)
         np.testing.assert_allclose(result.energy_rotor_j, law, rtol=1e-12)
         share = (result.r_total_ohm - MOTOR.r_rotor_side_ohm) / result.r_total_ohm
-        np.testing.assert_allclose(result.energy_step_j, law * share, rtol=1e-12)
+        np.testing.assert_allclose(result.energy_notch_j, law * share, rtol=1e-12)
 
     def test_load_adds_energy(self):
         loaded = simulate_rotor_start(MOTOR, SECTIONS, 1500.0, i_cut_a=I_CUT)
@@ -107,7 +108,7 @@ class TestStart:
 
     def test_a_step_already_below_its_cut_out_current_is_cut_at_once(self):
         result = simulate_rotor_start(MOTOR, [5.0, *SECTIONS], 0.0, i_cut_a=I_CUT)
-        assert result.dwell_s[0] == 0.0 and result.energy_step_j[0] == 0.0
+        assert result.dwell_s[0] == 0.0 and result.energy_notch_j[0] == 0.0
 
 
 class TestMessages:
@@ -134,3 +135,100 @@ class TestMessages:
             simulate_rotor_start(MOTOR, [0.3, 0.0], 0.0, i_cut_a=I_CUT)
         with pytest.raises(InputError, match="load_torque must be a number or two columns"):
             simulate_rotor_start(MOTOR, SECTIONS, [1.0, 2.0, 3.0], i_cut_a=I_CUT)
+
+
+#: The same motor as a name/value block, as the start-in-time cells read it.
+ROTOR_CELLS = [["kind", "wound rotor"], ["v_line", 690.0], ["frequency", 50.0], ["poles", 6], ["r_stator", 0.02],
+               ["x_stator", 0.12], ["x_magnetizing", 4.0], ["r_rotor", 0.025], ["x_rotor", 0.13], ["e_rotor", 750.0],
+               ["inertia", 60.0]]
+SECTION_CELLS = [[float(r)] for r in SECTIONS]
+
+
+def _cells(name, *arguments):
+    from notchwise.addin import udfs
+    from notchwise.addin.cells import call_with_cells
+
+    return call_with_cells(getattr(udfs, name), list(arguments))
+
+
+class TestThroughTheStartCells:
+    def test_no_load_energy_law_through_nw_start_sim(self):
+        """NW_START_SIM's energy column against (1/2) J ws^2 (s1^2 - s2^2) R_ext/(R_ext + R2) per step, its slips
+        from its own speed column (Leonhard, Control of Electrical Drives, 3rd ed., starting losses; from memory)."""
+        table = _cells("NW_START_SIM", ROTOR_CELLS, SECTION_CELLS, 0.0, I_CUT, None, None)
+        assert table[0][-1] == "peak stator current [A]" and len(table[0]) == 8
+        steps = np.array([row[:8] for row in table[1:1 + SECTIONS.size]], dtype=float)
+        s = np.append(1.0, 1.0 - steps[:, 5] / MOTOR.sync_speed_rpm)
+        r_total = MOTOR.r_rotor_side_ohm + np.cumsum(SECTIONS[::-1])[::-1]
+        law = 0.5 * MOTOR.inertia_kgm2 * MOTOR.omega_sync_rad_s**2 * (s[:-1] ** 2 - s[1:] ** 2)
+        np.testing.assert_allclose(steps[:, 6], law * (r_total - MOTOR.r_rotor_side_ohm) / r_total, rtol=1e-10)
+        np.testing.assert_allclose(steps[:, 4], I_CUT, rtol=1e-9)  # rotor current in the cut-out column
+
+    def test_history_against_solve_ivp(self):
+        """Speed and rotor current of NW_START_HISTORY at its sample times against J dw/dt = T - T_L by solve_ivp
+        (DOP853, rtol 1e-12) on each step, the steps' dwells from NW_START_SIM (a second method)."""
+        table = _cells("NW_START_SIM", ROTOR_CELLS, SECTION_CELLS, LOAD_TABLE, I_CUT, None, False)
+        dwells = [row[2] for row in table[:SECTIONS.size]]
+        rows = np.array(_cells("NW_START_HISTORY", ROTOR_CELLS, SECTION_CELLS, LOAD_TABLE, I_CUT, 120, None, False), dtype=float)
+        t, rotor, speed, torque, stator = rows.T
+        r_total = MOTOR.r_rotor_side_ohm + np.append(np.cumsum(SECTIONS[::-1])[::-1], 0.0)
+        ends = np.append(np.cumsum(dwells), np.inf)
+        omega_s, w, t0 = MOTOR.omega_sync_rad_s, 0.0, 0.0
+        load_at = lambda n: np.interp(n, *np.asarray(LOAD_TABLE).T)  # noqa: E731
+        for k, r in enumerate(r_total):
+            r_ref = float(MOTOR.to_stator_side_ohm(r))
+            inside = (t >= t0) & (t < ends[k]) if k < SECTIONS.size else t >= t0
+            t1 = min(ends[k], t[-1])
+            sol = solve_ivp(lambda _, y: [(MOTOR.torque_at_slip_nm(1.0 - y[0] / omega_s, r_ref) - load_at(y[0] * 30.0 / np.pi)) / 60.0],
+                            (t0, t1), [w], method="DOP853", rtol=1e-12, atol=1e-10, dense_output=True)
+            n_ref = sol.sol(t[inside])[0] * 30.0 / np.pi
+            np.testing.assert_allclose(speed[inside], n_ref, rtol=1e-6, atol=1e-4)
+            ref = MOTOR.currents(1.0 - n_ref / MOTOR.sync_speed_rpm, r_ref)
+            np.testing.assert_allclose(rotor[inside], ref.rotor_a, rtol=1e-6)
+            np.testing.assert_allclose(stator[inside], ref.stator_a, rtol=1e-6)
+            w, t0 = sol.y[0, -1], t1
+
+    def test_heating_is_three_phases(self):
+        """Three phases carry the rotor current: each section's energy is 3 R_s sum(i2t), and together the
+        sections take the whole start's external energy (conservation, a closed form)."""
+        start = _cells("NW_START_SIM", ROTOR_CELLS, SECTION_CELLS, 1000.0, I_CUT, None, False)
+        heating = _cells("NW_SECTION_HEATING", ROTOR_CELLS, SECTION_CELLS, 1000.0, I_CUT, "AISI 304", 30.0, 6.0, None,
+                         None, None, False)
+        assert heating[0][1] == pytest.approx(float(resistance_at_c(SECTIONS[0], 20.0, "AISI 304")), rel=1e-12)
+        energy = np.array([row[3] for row in heating], dtype=float)
+        assert energy.sum() == pytest.approx(start[-1][6], rel=1e-10)
+
+    def test_worst_case_scales_torque_with_the_square_of_voltage(self):
+        """At 90 % supply the standstill torque is 0.81 of nominal (T ~ V_th^2, Eq. 6.36 of Fitzgerald et al.,
+        6th ed.): the same start at v_line 621 V is the worst case's 621 V corner."""
+        low = MOTOR.with_supply(621.0, MOTOR.inertia_kgm2)
+        assert low.torque_at(0.0, 0.3) == pytest.approx(0.81 * MOTOR.torque_at(0.0, 0.3), rel=1e-12)
+        assert low.ratio == pytest.approx(MOTOR.ratio, rel=1e-12)
+        table = _cells("NW_WORST_CASE", ROTOR_CELLS, SECTION_CELLS, 1000.0, I_CUT, -0.1, -0.1, 0.0, "AISI 304", 20.0,
+                       1, None, None, False)
+        peak = table[0]
+        direct = simulate_rotor_start(low, SECTIONS, 1000.0, i_cut_a=I_CUT)  # tolerance 0, grid at 20 °C
+        assert peak[2] == pytest.approx(621.0) and peak[1] == pytest.approx(max(direct.i_peak_a.max(), direct.i_peak_run_a), rel=1e-12)
+
+    def test_protection_takes_the_stator_history_directly(self):
+        """NW_RIDE_THROUGH on the whole five-column history reads the stator current, the same as on the two
+        columns time and stator current (and not the rotor current)."""
+        history = _cells("NW_START_HISTORY", ROTOR_CELLS, SECTION_CELLS, 1000.0, I_CUT, 60, None, True)
+        two = [[row[0], row[4]] for row in history]
+        rotor = [[row[0], row[1]] for row in history]
+        arguments = ("IEC VI", 300.0, 0.3, None, None, None, None, None, None, None)
+        whole = _cells("NW_RIDE_THROUGH", history, *arguments)
+        assert whole == _cells("NW_RIDE_THROUGH", two, *arguments)
+        assert whole != _cells("NW_RIDE_THROUGH", rotor, *arguments)
+
+
+def test_worst_case_counts_a_wound_rotor_stall_by_its_step():
+    """At 90 % supply the standstill torque on step 1 is 0.81 x 6000 = 4860 N·m (T ~ V², Eq. 6.36 of Fitzgerald
+    et al., 6th ed.), below a 5000 N·m load: that corner stalls on step 1, the others run."""
+    from notchwise.formulas.worst_case import sweep_corners
+
+    sweep = sweep_corners(MOTOR, 690.0, SECTIONS, None, MOTOR.inertia_kgm2, 5000.0, -0.1, 0.1, 0.0, "AISI 304",
+                          20.0, 20.0, (3, 1, 1), i_cut_a=I_CUT * 1.5)
+    assert sweep.status == ("stalls", "ran", "ran")
+    assert sweep.status_notch[0] == 1 and "step 1 stalls at standstill" in sweep.reason[0]
+    assert sweep.worst_margin in (1, 2) and np.all(sweep.margin[1:] > 0.0)

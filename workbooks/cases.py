@@ -8,7 +8,7 @@ sheet to ``SHEETS``: no new code.
 from __future__ import annotations
 
 from notchwise.addin import SERIES_WARNING
-from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START, STARTS
+from notchwise.workbooks.demo_cases import CONTRACTOR, CONVEYOR, HOIST, HOIST_PROTECTION, HOIST_START, MILL, STARTS
 from notchwise.workbooks.schema import EACH, Chart, Input, Link, Literal, Part, Result, Series, Sheet, Sweep, Table
 
 __all__ = ["FUNCTION_BASIS", "SHEETS", "HOW_TO_GO_LIVE", "CAUTIONS", "INSTALL_LINE"]
@@ -32,6 +32,20 @@ FUNCTION_BASIS = {
     "relay": (
         "Inverse-time elements t = m(k/(M^α - 1) + c) (notchwise.formulas.relays): IEC 60255-151:2009, Table 1; "
         "IEEE Std C37.112-1996, Table 1; operate progress Σ dt/t(I); thermal element IEC 60255-149."
+    ),
+    "rotor": (
+        "Per-phase T circuit (IEEE Std 112-2017 clause 9, IEC 60034-28:2012), torque from the Thevenin form, "
+        "rotor grading geometric in R2'/s (notchwise.formulas.induction_motor): A. E. Fitzgerald, C. Kingsley Jr., "
+        "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, sec. 6.3-6.5, 6.7 (numbers from memory)."
+    ),
+    "rotor start": (
+        "Quasi-steady rotor start J dω/dt = T(s, R') - T_load, time and energy integrals in slip by Gauss-Legendre "
+        "(notchwise.formulas.rotor_start); leaves out the stator's switching transient; no-load rotor energy "
+        "½Jωs²(s1² - s2²) (W. Leonhard, Control of Electrical Drives, 3rd ed., Springer, 2001; from memory)."
+    ),
+    "dip": (
+        "Voltage dip with the motor as a constant impedance against the source (notchwise.formulas.supply): "
+        "IEEE Std 399-1997 ch. 9, IEEE Std 141-1993 ch. 3 (from memory)."
     ),
     "machine": (
         "DC machine laws E = kΦn, T = (60/2π)kΦI, V = E + IR + Vb (notchwise.formulas.dc_motor): A. E. Fitzgerald, "
@@ -328,8 +342,114 @@ def _hoist_protection_sheet() -> Sheet:
     )
 
 
+def _mill_sheet() -> Sheet:
+    m = MILL.inputs
+    rows = [[name, m[name], unit] for name, unit in (
+        ("v_line", "V"), ("frequency", "Hz"), ("poles", "-"), ("r_stator", "ohm"), ("x_stator", "ohm"),
+        ("x_magnetizing", "ohm"), ("r_rotor", "ohm"), ("x_rotor", "ohm"), ("e_rotor", "V"), ("inertia", "kg·m²"))]
+    start = ("mill_motor", "mill_sections", "mill_load_torque", "mill_i_cut")
+    steps = range(1, len(m["r_external"]))
+    r_external = tuple(
+        Input(f"mill_r_external_{k}", f"External rotor resistance on step {k} (graded sections still in, rounded)",
+              r, "ohm") for k, r in enumerate(m["r_external"][:-1], start=1)
+    )
+    speed = Table("mill_sweep_speed", "Shaft speed", ("speed [rpm]",), [[n] for n in m["sweep_speed"]])
+    external = [(f"step {k}", f"mill_r_external_{k}") for k in steps] + [("run", Literal(0.0))]
+    return Sheet(
+        name="Mill",
+        title=MILL.title,
+        story=MILL.story + " The sections are the graded ones; sections and currents are rotor side, per phase.",
+        inputs=(
+            Table("mill_motor", "Motor (name, value): the per-phase T circuit, stator-referred", ("name", "value", "unit"),
+                  [["kind", "wound rotor", "-"], *rows]),
+            Input("mill_t_peak", "Torque at the start of every step", m["t_peak"], "N·m"),
+            Input("mill_t_switch", "Least torque at cut-out", m["t_switch"], "N·m"),
+            Input("mill_t_limit", "Highest torque the mill gearing allows", m["t_limit"], "N·m"),
+            Input("mill_i_limit", "Highest stator current the supply allows", m["i_limit"], "A"),
+            Table("mill_load_torque", "Mill load on the motor shaft", ("speed [rpm]", "torque [N·m]"), m["load_torque"]),
+            Input("mill_i_cut", "Cut-out current of the rotor current relays (rotor side)", m["i_cut"], "A"),
+            Input("mill_history_points", "Points of the time history", m["history_points"], "-"),
+            Input("mill_alloy", "Grid element alloy", m["alloy"], "-"),
+            Input("mill_grid_mass", "Element mass per section, three phases", m["grid_mass"], "kg"),
+            Input("mill_starts_per_hour", "Starts per hour", m["starts_per_hour"], "1/h"),
+            Input("mill_v_line", "Supply line voltage at no load", m["v_line"], "V"),
+            Input("mill_fault_level", "Short-circuit level at the mill's 690 V bus", m["fault_level"], "MVA"),
+            Input("mill_x_over_r", "X/R of the source", m["x_over_r"], "-"),
+            Input("mill_curve", "Inverse-time curve of the stator relay", m["curve"], "-"),
+            Input("mill_i_full_load", "Full-load stator current", m["i_full_load"], "A"),
+            Input("mill_i_stall", "Stator current of a stall on step 1 (mill jammed)", m["i_stall"], "A"),
+            Input("mill_t_stall", "Time the motor withstands that current", m["t_stall"], "s"),
+            Input("mill_pickup", "Stator relay pickup as set", m["pickup"], "A"),
+            Input("mill_multiplier", "TMS as set", m["multiplier"], "-"),
+            Input("mill_highset", "High-set pickup as set", m["highset"], "A"),
+            Input("mill_highset_delay", "High-set delay as set", m["highset_delay"], "s"),
+            Input("mill_k_factor", "Thermal element k factor", m["k_factor"], "-"),
+            Input("mill_tau", "Thermal time constant of the motor", m["tau"], "s"),
+            *r_external,
+        ),
+        results=(
+            Result("Graded rotor sections (fewest steps that keep the switching torque)", "NW_GRADE_ROTOR",
+                   ("mill_motor", "mill_t_peak", "mill_t_switch"), FUNCTION_BASIS["rotor"],
+                   parts=(Part("mill_sections", 2, 2),)),
+            Result("The graded sections checked against the gearing and the supply", "NW_CHECK_ROTOR",
+                   ("mill_motor", "mill_sections", "mill_t_switch", "mill_t_limit", "mill_i_limit"),
+                   FUNCTION_BASIS["rotor"]),
+            Result("Power factor at standstill on step 1", "NW_ROTOR_CURRENTS",
+                   ("mill_motor", Literal(0.0), "mill_r_external_1"), FUNCTION_BASIS["rotor"],
+                   parts=(Part("mill_pf_start", 2, 2),)),
+            Result("Step by step in time: rotor currents, speeds, energy in the grid, peak stator current", "NW_START_SIM",
+                   (*start, None), FUNCTION_BASIS["rotor start"], parts=(Part("mill_stator_peaks", 7, 7),)),
+            Result("Supply dip at each step's peak stator current (rows as above)", "NW_VOLTAGE_DIP",
+                   ("mill_v_line", "mill_fault_level", "mill_x_over_r", "mill_stator_peaks", "mill_pf_start"),
+                   FUNCTION_BASIS["dip"], labels=("dip [-]",)),
+            Result(
+                "Starting diagram: rotor and stator current and speed against time", "NW_START_HISTORY",
+                (*start, "mill_history_points"), FUNCTION_BASIS["rotor start"],
+                chart=Chart("Mill start: currents and speed against time", x=0, y=(1, 4), y2=(2,), markers=False),
+                parts=(Part("mill_start_history", 0, 4),),
+            ),
+            Result(
+                "Rotor grid sections: energy (three phases), duty, rise, cold and hot peaks", "NW_SECTION_HEATING",
+                (*start, "mill_alloy", "mill_grid_mass", "mill_starts_per_hour"), FUNCTION_BASIS["heating"],
+            ),
+            Result(
+                "Stator relay settings proposed from the simulated start (stator current)", "NW_PROPOSE_SETTINGS",
+                ("mill_start_history", "mill_curve", "mill_i_full_load", "mill_i_stall", "mill_t_stall"),
+                FUNCTION_BASIS["relay"],
+            ),
+            Result(
+                "Ride-through of the start with the stator relay as set", "NW_RIDE_THROUGH",
+                ("mill_start_history", "mill_curve", "mill_pickup", "mill_multiplier", "mill_highset",
+                 "mill_highset_delay", "mill_i_full_load", "mill_k_factor", "mill_tau"),
+                FUNCTION_BASIS["relay"],
+            ),
+        ),
+        sweeps=(
+            Sweep(
+                "Torque and stator current against speed on every step",
+                speed,
+                (*((f"torque {label} [N·m]", "NW_ROTOR_TORQUE", ("mill_motor", EACH, r), FUNCTION_BASIS["rotor"])
+                   for label, r in external),
+                 *((f"stator current {label} [A]", "NW_ROTOR_CURRENTS", ("mill_motor", EACH, r, Literal(False)),
+                    FUNCTION_BASIS["rotor"], 1) for label, r in external)),
+                Chart("Mill motor: torque and stator current against speed, every step", x=0,
+                      y=tuple(range(1, len(external) + 1)), y2=tuple(range(len(external) + 1, 2 * len(external) + 1)),
+                      y_label="torque [N·m]", y2_label="stator current [A]", markers=False),
+            ),
+        ),
+        notes=(
+            "Quasi-steady start: each instant takes the steady-state torque and currents at its slip; the stator's "
+            "switching transient (a DC offset over the first cycles) is left out, so instantaneous elements need "
+            "its asymmetric peak added.",
+            "Danger: the rotor's open-circuit voltage (e_rotor) stands on the slip rings at standstill; never open "
+            "the rotor circuit while the motor runs on resistance. The maker's data and local codes prevail.",
+        ),
+    )
+
+
 #: The workbook's case sheets, in order. Add a case here to add a sheet.
-SHEETS = (_hoist_sheet(), _hoist_start_sheet(), _hoist_protection_sheet(), _conveyor_sheet(), _contractor_sheet())
+SHEETS = (_hoist_sheet(), _hoist_start_sheet(), _hoist_protection_sheet(), _conveyor_sheet(), _contractor_sheet(),
+          _mill_sheet())
 
 #: How to install, as the README gives it (a test keeps the two equal).
 INSTALL_LINE = "python -m pip install . (in Notchwise's source folder), then xlwings addin install"

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
-__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "HOIST_START", "CONVEYOR_START", "HOIST_PROTECTION", "STARTS", "DemoCase"]
+__all__ = ["HOIST", "CONVEYOR", "CONTRACTOR", "HOIST_START", "CONVEYOR_START", "HOIST_PROTECTION", "STARTS", "MILL", "DemoCase"]
 
 
 @dataclass(frozen=True)
@@ -162,5 +162,55 @@ HOIST_PROTECTION = DemoCase(
         # extent of the coordination diagram: currents [A] and times [s]
         "drawn_currents": (100.0, 10000.0),
         "drawn_times": (0.01, 10000.0),
+    },
+)
+
+#: The Caldbeck Quarry ball-mill drive: a 690 V, 6-pole slip-ring induction motor with a rotor-resistance starter.
+MILL = DemoCase(
+    key="mill",
+    title="Caldbeck Quarry ball mill (wound-rotor induction motor)",
+    story=(
+        "A 690 V, 50 Hz, 6-pole slip-ring motor turning the Caldbeck Quarry ball mill through a girth gear, "
+        "started by stepping out a stainless-steel rotor grid on current-limit relays in the rotor circuit; "
+        "the charge breaks away at 2200 N·m on the motor shaft and settles to about 1500 N·m once it cascades. "
+        "The rotor volts (750 V at standstill, open circuit) are lethal: the slip rings are guarded and the "
+        "rotor circuit is never opened while the motor runs on resistance."
+    ),
+    inputs={
+        "v_line": 690.0,
+        "frequency": 50.0,
+        "poles": 6.0,
+        "r_stator": 0.02,
+        "x_stator": 0.12,
+        "x_magnetizing": 4.0,
+        "r_rotor": 0.025,
+        "x_rotor": 0.13,
+        "e_rotor": 750.0,
+        "inertia": 60.0,
+        "t_peak": 6000.0,
+        "t_switch": 3500.0,
+        "t_limit": 6500.0,
+        "i_limit": 700.0,
+        "load_torque": [[0.0, 2200.0], [50.0, 1500.0], [500.0, 1700.0], [1000.0, 2100.0]],
+        "i_cut": 320.0,
+        "history_points": 120.0,
+        "alloy": "AISI 304",
+        "grid_mass": 25.0,
+        "starts_per_hour": 4.0,
+        "fault_level": 25.0,
+        "x_over_r": 8.0,
+        "curve": "IEC VI",
+        "i_full_load": 325.0,
+        "i_stall": 640.0,
+        "t_stall": 20.0,
+        "pickup": 375.0,
+        "multiplier": 0.3,
+        "highset": 1000.0,
+        "highset_delay": 0.05,
+        "k_factor": 1.05,
+        "tau": 1200.0,
+        # External rotor resistance on each step (the graded sections still in, rounded) and 0 for the run.
+        "r_external": [0.6819, 0.3504, 0.1730, 0.0780, 0.0272, 0.0],
+        "sweep_speed": [float(n) for n in range(0, 1001, 50)],
     },
 )

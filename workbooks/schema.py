@@ -165,7 +165,8 @@ class Sweep:
 
     title: str
     input: Table
-    columns: tuple  # of (label with unit, function name, arguments with EACH, basis)
+    columns: tuple  # of (label with unit, function name, arguments with EACH, basis[, k]); with k, the k-th cell
+    # (from 1) of the function's one-row result, written =INDEX(NW_...(...),1,k)
     chart: Chart | None = None
 
 

@@ -335,8 +335,10 @@ class _Writer:
             self._write_value(ws, at, col, current, "input", _unit_of(sweep.input.columns[0]))
             ref = xl_rowcol_to_cell(at, col)
             cells = [current]
-            for c, (label, function, arguments, basis) in enumerate(sweep.columns):
+            for c, (label, function, arguments, basis, *pick) in enumerate(sweep.columns):
                 formula, value, inputs = self._call(function, arguments, each=(ref, current))
+                if pick and isinstance(value, list):  # one cell of a one-row result (schema.Sweep)
+                    formula, value = f"=INDEX({formula[1:]},1,{pick[0]})", value[0][pick[0] - 1]
                 where = self._write_result(ws, at, col + 1 + c, formula, value, (_unit_of(label),))
                 self.computed.append(Computed(sheet.name, where, function, formula, inputs, value, basis,
                                               sweep.title, in_sweep=True))
