@@ -55,12 +55,10 @@ References
 from __future__ import annotations
 
 import math
-from bisect import bisect_right
 from dataclasses import dataclass
 
 import numpy as np
 from scipy.integrate import solve_ivp
-from scipy.interpolate import PchipInterpolator
 from scipy.optimize import brentq, minimize_scalar
 
 from .dc_motor import effective_supply_v, torque_nm
@@ -460,28 +458,13 @@ class _Trace:
 def _scalar_flux(circuit: _Circuit):
     """``i -> (kΦ(i), dkΦ/di)`` at one current, fast: the motor's flux for the integrator's many calls.
 
-    A series motor's curve is the monotone piecewise cubic of its table
-    (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`); the same cubic
-    is rebuilt from the table and evaluated by Horner's rule, which gives its
-    exact slope as well. Currents are held within the table.
+    The motor's ``notch_flux`` (:class:`~notchwise.formulas.notch_integrator.FluxCurve`, the monotone piecewise
+    cubic of its magnetization curve, or its constant flux) through the one scalar evaluation the start's
+    integrator uses; currents are taken by magnitude and held within the curve.
     """
-    motor = circuit.motor
-    if circuit.constant_flux:
-        constant = (float(motor.k_phi_v_per_rpm), 0.0)
-        return lambda i: constant
-    curve = motor.curve
-    cubic = PchipInterpolator(curve.excitation, curve.emf_v)
-    breaks, pieces, top = cubic.x.tolist(), (cubic.c / curve.speed_rpm).T.tolist(), curve.max_excitation
-    last = len(pieces) - 1
-
-    def flux_slope(i):
-        i = min(abs(i), top)
-        k = min(bisect_right(breaks, i) - 1, last)
-        c3, c2, c1, c0 = pieces[k]
-        x = i - breaks[k]
-        return ((c3 * x + c2) * x + c1) * x + c0, (3.0 * c3 * x + 2.0 * c2) * x + c1
-
-    return flux_slope
+    flux = circuit.motor.notch_flux
+    evaluate, top = flux.k_phi_and_slope, flux.i_max_a
+    return lambda i: evaluate(min(abs(i), top))
 
 
 def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n_start: float, n_end: float,

@@ -73,6 +73,8 @@ __all__ = [
     "load_table",
     "NotchRun",
     "integrate_notch",
+    "cubic_pieces",
+    "cubic_evaluator",
     "STATUSES",
 ]
 
@@ -134,6 +136,11 @@ class FluxCurve:
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
         return self._evaluate(float(i_a))[0]
 
+    @property
+    def k_phi_and_slope(self):
+        """The function ``i [A] -> (kΦ [V/rpm], dkΦ/di [V/(rpm·A)])`` at one float current, for integrators."""
+        return self._evaluate
+
 
 def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain: float = 1.0) -> FluxCurve:
     r"""A :class:`FluxCurve` from a magnetization table, by its PCHIP interpolant.
@@ -175,9 +182,73 @@ def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain:
 
 
 def _pieces(pchip, speed_rpm, offset_a, gain):
-    """The :class:`FluxCurve` of a piecewise polynomial in scipy's form (``.x`` breaks, ``.c`` coefficients)."""
-    rows = tuple(tuple(c / speed_rpm for c in column) for column in pchip.c.T.tolist())
-    return FluxCurve(tuple(pchip.x.tolist()), rows, float(offset_a), float(gain))
+    """The :class:`FluxCurve` of a piecewise cubic in scipy's form (``.x`` breaks, ``.c`` coefficients)."""
+    return _scaled(cubic_pieces(pchip), speed_rpm, offset_a, gain)
+
+
+def _scaled(pieces, speed_rpm, offset_a, gain):
+    """The :class:`FluxCurve` of EMF pieces ``(breaks, rows)`` measured at ``speed_rpm``."""
+    breaks, rows = pieces
+    return FluxCurve(breaks, tuple(tuple(c / speed_rpm for c in row) for row in rows), float(offset_a), float(gain))
+
+
+def cubic_pieces(pchip):
+    """Breaks and per-interval power-basis rows (highest power first) of a scipy piecewise cubic, as tuples.
+
+    Parameters
+    ----------
+    pchip : scipy.interpolate.PPoly or PchipInterpolator
+        A piecewise cubic (``.x`` breaks, ``.c`` coefficients of shape (4, m)). [-]
+
+    Returns
+    -------
+    tuple
+        ``(breaks, rows)``: the breaks [x units] and, per interval, ``(c3, c2, c1, c0)`` in the variable
+        measured from the interval's start. [-]
+
+    Notes
+    -----
+    .. math:: P(x) = c_3 u^3 + c_2 u^2 + c_1 u + c_0, \\quad u = x - x_k
+    """
+    return tuple(pchip.x.tolist()), tuple(tuple(row) for row in pchip.c.T.tolist())
+
+
+def cubic_evaluator(breaks, rows):
+    """A function of one float ``x`` giving the piecewise cubic and its slope there: the one fast scalar evaluation.
+
+    Bisection for the interval (the first below the first break, the last above the last break) and
+    Horner's rule; the magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`),
+    the integrator's flux and the braking stop all use it.
+
+    Parameters
+    ----------
+    breaks : sequence of float
+        Breaks, strictly rising. [x units]
+    rows : sequence of tuple
+        Per interval ``(c3, c2, c1, c0)`` as from :func:`cubic_pieces`. [-]
+
+    Returns
+    -------
+    callable
+        ``x -> (P(x), P'(x))``. [-]
+
+    Notes
+    -----
+    .. math:: P'(x) = (3 c_3 u + 2 c_2) u + c_1
+    """
+    last = len(rows) - 1
+
+    def value_and_slope(x):
+        k = bisect_right(breaks, x) - 1
+        if k < 0:
+            k = 0
+        elif k > last:
+            k = last
+        c3, c2, c1, c0 = rows[k]
+        u = x - breaks[k]
+        return ((c3 * u + c2) * u + c1) * u + c0, (3.0 * c3 * u + 2.0 * c2) * u + c1
+
+    return value_and_slope
 
 
 def constant_flux(k_phi_v_per_rpm: float) -> FluxCurve:
@@ -225,30 +296,25 @@ def motor_flux(motor) -> FluxCurve:
     curve = getattr(motor, "curve", None)
     if curve is None or curve.speed_rpm is None:
         raise InputError("mag_curve and mag_speed are needed to simulate a series or compound motor")
-    # The curve validated its table when it was built; its interpolant is rebuilt here from the same points.
-    return _pieces(PchipInterpolator(curve.excitation, curve.emf_v), curve.speed_rpm,
-                   getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
+    # The curve validated its table when it was built and holds the pieces of its interpolant.
+    return _scaled(curve.pieces, curve.speed_rpm, getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
 
 
 def _flux_evaluator(breaks, coefficients, offset_a, gain):
     """A function of the armature current giving :math:`k\\Phi` [V/rpm] and its slope [V/(rpm·A)].
 
-    Bisection for the interval, Horner's rule for the cubic; the locals are bound once (the step loop
-    calls it three times a step).
+    The cubic of :func:`cubic_evaluator` at the excitation :math:`x_0 + g i`; below zero excitation the flux
+    is held at its value there.
     """
-    last = len(coefficients) - 1
+    cubic = cubic_evaluator(breaks, coefficients)
+    held = coefficients[0][3]
 
     def flux_and_slope(i_a):
         x = offset_a + gain * i_a
         if x <= 0.0:  # no excitation below zero: the flux is held there
-            c3, c2, c1, c0 = coefficients[0]
-            return c0, 0.0
-        k = bisect_right(breaks, x) - 1
-        if k > last:
-            k = last
-        c3, c2, c1, c0 = coefficients[k]
-        u = x - breaks[k]
-        return ((c3 * u + c2) * u + c1) * u + c0, gain * ((3.0 * c3 * u + 2.0 * c2) * u + c1)
+            return held, 0.0
+        value, slope = cubic(x)
+        return value, gain * slope
 
     return flux_and_slope
 
@@ -624,10 +690,12 @@ def integrate_notch(
             if s_rest <= s_end:
                 s_end, status = s_rest, "rest"
         if n_settle is not None and n1 >= n_settle:
-            s_ok = _settle_point(pi, pn, n_settle)
+            s_ok = _settle_point(pi, pn, n_settle, rtol * (swing + i_floor))
             if s_ok is not None and s_ok <= s_end:
                 s_end, status = s_ok, "settled"
-        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] else None
+        # A peak inside the step, on its cubic; not where the step spans many electrical time constants: there
+        # the current closes exponentially on its quasi-steady value and the cubic overshoots the ends.
+        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] and -h * j11 < 1.0 else None
         if s_peak is not None and s_peak <= s_end:
             value = _at(pi, s_peak)
             if value > peak:
@@ -670,14 +738,18 @@ def integrate_notch(
                     np.array(knots if keep_history else np.empty((0, 5)), dtype=float).reshape(-1, 5))
 
 
-def _settle_point(pi, pn, n_target):
-    """First s in [0, 1] with the speed at or above the target and the current not rising; None if none."""
+def _settle_point(pi, pn, n_target, flat):
+    """First s in [0, 1] with the speed at or above the target and the current not rising; None if none.
+
+    A rise of the current over the step below ``flat`` (its error tolerance [A]) is noise, not a rise: with a
+    tiny inductance the slope of a current at its steady value has either sign.
+    """
     n_end = _at(pn, 1.0)
-    if n_end < n_target or _slope(pi, 1.0) > 0.0:
+    if n_end < n_target or _slope(pi, 1.0) > flat:
         return None
     n_start = pn[0]
     s_speed = 0.0 if n_start >= n_target else _root(lambda s: _at(pn, s) - n_target, 0.0, 1.0, n_start - n_target, n_end - n_target)
-    if _slope(pi, s_speed) <= 0.0:
+    if _slope(pi, s_speed) <= flat:
         return s_speed
     s_peak = _slope_zero(pi)
     return 1.0 if s_peak is None else max(s_speed, s_peak)

@@ -7,21 +7,16 @@ zero-argument callables; add yours to ``CASES`` under your subject.
 
 from __future__ import annotations
 
-import functools
 import statistics
 import timeit
-from contextlib import contextmanager
 
 import numpy as np
 from scipy.integrate import solve_ivp
 
 from notchwise.addin import udfs
 from notchwise.workbooks.audit import audit_bytes
-from notchwise.formulas import start_dc
-from notchwise.formulas.start_notch import SETTLED_FRACTION
 from notchwise.formulas.dc_motor import (NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, developed_torque_nm,
                                          magnetization_curve, steady_speed_rpm)
-from notchwise.formulas.notch_integrator import integrate_notch, load_table, motor_flux
 from notchwise.formulas.grading import check_sections, grade_uniform, notch_resistances_ohm
 from notchwise.formulas.protection import ride_through
 from notchwise.formulas.relays import CURVES, operate_time_s
@@ -201,57 +196,6 @@ def compound_motor() -> CompoundMotor:
                          1200.0, 8.0)
 
 
-#: Flux curves and load tables already built, by the id of the machine or load they come from (kept alive beside).
-_BUILT = {}
-
-
-def _built(source, build):
-    """``build(source)``, once per source object: a start builds its flux curve and load table once, not per phase."""
-    entry = _BUILT.get(id(source))
-    if entry is None or entry[0] is not source:
-        entry = _BUILT[id(source)] = (source, build(source))
-    return entry[1]
-
-
-def rosenbrock_running_phase(notch, k_phi, circuit, i_cut, t_left, t_cap, final_speed=None, rtol=None):
-    """integrate_notch in the place of start_integrated.integrated_running_phase: same arguments, same returns.
-
-    This is the plug-in the integrated path takes (see the closing note of issue 12); here it is swapped in for
-    the benchmark only, by :func:`rosenbrock_path`.
-    """
-    flux = _built(k_phi.__self__, motor_flux)
-    table = _built(circuit.load, lambda load: load_table(load.speed_rpm, load.torque_nm))
-    run = integrate_notch(flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, table, notch.i,
-                          max(notch.n, 0.0), t_max_s=t_left if np.isfinite(t_left) else t_cap, i_cut_a=i_cut,
-                          n_settle_rpm=None if final_speed is None else SETTLED_FRACTION * final_speed,
-                          **({} if rtol is None else {"rtol": rtol}))
-    notch.add(run.duration_s, run.i_end_a, run.n_end_rpm, run.i_peak_a, run.charge_c, run.i2t_a2s, run.work_load_j,
-              run.state_at)
-    if run.status == "rest":
-        return False
-    if run.status in ("cut", "settled") or (run.status == "time" and np.isfinite(t_left)):
-        return True
-    raise notch.incomplete("step bound" if run.status == "step cap" else "stalls",
-                           run.message or f"did not end within {t_cap:.4g} s (the time cap)")
-
-
-@contextmanager
-def rosenbrock_path(rtol=None):
-    """Run simulate_start (and sweep_corners) with :func:`rosenbrock_running_phase` as the integrated path."""
-    saved = start_dc.integrated_running_phase
-    start_dc.integrated_running_phase = functools.partial(rosenbrock_running_phase, rtol=rtol)
-    try:
-        yield
-    finally:
-        start_dc.integrated_running_phase = saved
-
-
-def fast_start(rtol=None, **case):
-    """simulate_start with integrate_notch as its integrated path."""
-    with rosenbrock_path(rtol):
-        return simulate_start(**case)
-
-
 def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2, load, i_cut_a, brush_drop_v=0.0):
     """The same start as a plain tight solve (solve_ivp LSODA, rtol 1e-9), written with no care for speed.
 
@@ -279,35 +223,36 @@ def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2
 
 
 def fast_start_section() -> None:
-    """Series and compound 4-notch starts through integrate_notch, beside simulate_start and a plain LSODA solve."""
+    """Series and compound 4-notch starts (simulate_start: the fast integrator), beside a plain LSODA rtol 1e-9 solve."""
     today = {}
     for name, motor in (("series", series_motor()), ("compound", compound_motor())):
         case = dict(motor=motor, v_supply_v=230.0, sections_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
                     l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0)
-        fast = fast_start(**case)
-        tight = simulate_start(**case, rtol=1e-10)
+        fast = simulate_start(**case)
+        tight = simulate_start(**case, method="integrate", rtol=1e-10)
         errors = {key: np.max(np.abs(np.atleast_1d(getattr(fast, key)) / np.atleast_1d(getattr(tight, key)) - 1.0))
                   for key in ("i_peak_a", "dwell_s", "i2t_a2s", "work_load_j", "i_peak_run_a", "t_accel_s")}
-        fast_ms = median_ms(lambda: fast_start(**case))
+        fast_ms = today[name] = median_ms(lambda: simulate_start(**case))
         lsoda_ms = median_ms(lambda: plain_lsoda_start(**case), repeat=3)
-        today_ms = today[name] = median_ms(lambda: simulate_start(**case), repeat=3)
-        print(f"4-notch {name} start through integrate_notch (RODAS3, rtol 5e-5): {fast_ms:.2f} ms median (target 5 ms);"
+        radau_ms = median_ms(lambda: simulate_start(**case, method="integrate"), repeat=3)
+        print(f"4-notch {name} start (simulate_start, RODAS3 rtol 5e-5): {fast_ms:.2f} ms median (target 5 ms);"
               f" ratio to a plain LSODA rtol 1e-9 solve ({lsoda_ms:.0f} ms) {fast_ms / lsoda_ms:.3f} (target 0.03);"
-              f" simulate_start today (Radau rtol 1e-7) {today_ms:.0f} ms, ratio {fast_ms / today_ms:.3f}")
-        print("  largest difference from simulate_start at rtol 1e-10: "
+              f" the general solver (Radau rtol 1e-7, method='integrate') {radau_ms:.0f} ms")
+        print("  largest difference from the general solver at rtol 1e-10: "
               + ", ".join(f"{key} {100 * value:.1e} %" for key, value in errors.items()) + " (target 0.05 %)")
     motor = series_motor()
     hoist = dict(motor=motor, v_supply_v=230.0, sections_20c_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
                  l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0, hot_c=300.0,
                  points=(10, 10, 10))
     started = timeit.default_timer()
-    with rosenbrock_path():
-        sweep = sweep_corners(**hoist)
+    sweep = sweep_corners(**hoist)
     sweep_s = timeit.default_timer() - started
-    print(f"series hoist worst case over 1,000 corners (sweep_corners, integrate_notch as its integrated path):"
-          f" {sweep_s:.2f} s (target 5 s), {sweep.stalls} corners stall, highest peak"
-          f" {sweep.i_peak_a[sweep.worst_peak]:.1f} A; through today's path, estimated {today['series']:.0f} s"
-          f" (1,000 x the start's median in ms)")
+    lsoda_s = median_ms(lambda: plain_lsoda_start(**{k: v for k, v in hoist.items()
+                                                      if k not in ("sections_20c_ohm", "hot_c", "points")},
+                                                   sections_ohm=hoist["sections_20c_ohm"]), repeat=3)
+    print(f"series hoist worst case over 1,000 corners (sweep_corners): {sweep_s:.2f} s (target 5 s), ratio to"
+          f" 1,000 plain LSODA rtol 1e-9 starts ({lsoda_s:.1f} s) {sweep_s / lsoda_s:.3f}; {sweep.stalls} corners"
+          f" stall, highest peak {sweep.i_peak_a[sweep.worst_peak]:.1f} A")
 
 
 def median_ms(call, repeat: int = 7) -> float:

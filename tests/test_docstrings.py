@@ -150,7 +150,6 @@ KNOWN_GAPS = {
     "start_sim.settling_current_a: load (no [unit] at the end)",
     "start_sim.settling_current_a: motor (no [unit] at the end)",
     "start_sim.simulate_start: load (no [unit] at the end)",
-    "start_sim.simulate_start: method (no [unit] at the end)",
     "start_sim.simulate_start: motor (no [unit] at the end)",
     "start_sim.start_history: motor (no [unit] at the end)",
     "start_sim.start_history: result (no [unit] at the end)",
