@@ -201,6 +201,8 @@ def _rows(value) -> list:
         return []
     if not isinstance(value, (list, tuple)):
         return [[value]]
+    if set(map(type, value)) == {list}:  # rows that are lists already are shared (a 10,000-row history)
+        return list(value)
     return [list(row) if isinstance(row, (list, tuple)) else [row] for row in value]
 
 
@@ -222,14 +224,15 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
         raise InputError(f"{name} has {len(rows)} rows of numbers; at least {min_rows} are needed")
     if len(rows[0]) < len(columns):
         raise InputError(f"{name} needs {len(columns)} columns ({', '.join(columns)}); it has {len(rows[0])}")
-    for r, row in enumerate(rows):
-        if len(row) != len(rows[0]):
-            raise InputError(f"{name} rows differ in length: row {r + 1} has {len(row)} cells, row 1 has {len(rows[0])}")
+    if len(set(map(len, rows))) > 1:
+        r = next(r for r, row in enumerate(rows) if len(row) != len(rows[0]))
+        raise InputError(f"{name} rows differ in length: row {r + 1} has {len(rows[r])} cells, row 1 has {len(rows[0])}")
     if set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}:
         # Plain numbers (a 10,000-row history): checked at once; anything else takes the path that names the cell.
         with np.errstate(over="ignore"):
             try:
-                numbers = np.array(rows, dtype=float)
+                numbers = np.fromiter(itertools.chain.from_iterable(rows), dtype=float,
+                                      count=len(rows) * len(rows[0])).reshape(len(rows), len(rows[0]))
             except OverflowError:  # an int beyond any float: the path below names its cell
                 numbers = np.full((1, 1), math.nan)
         if np.all(np.isfinite(numbers)):
