@@ -75,6 +75,8 @@ __all__ = [
     "integrate_notch",
     "cubic_pieces",
     "cubic_evaluator",
+    "rosenbrock_step",
+    "checked_rtol",
     "STATUSES",
 ]
 
@@ -499,6 +501,87 @@ def _slope_zero(a):
     return None
 
 
+def rosenbrock_step(i, n, fi, fn, jacobian, h, slopes):
+    r"""One RODAS3 step [2]_ of a 2-state system on plain floats: the new state and the error estimate.
+
+    Parameters
+    ----------
+    i, n : float
+        The state at the step's start (current, speed). [A], [rpm]
+    fi, fn : float
+        Its slopes there. [A/s], [rpm/s]
+    jacobian : tuple of float
+        ``(j11, j12, j21, j22)``, the exact Jacobian there. [1/s, A/(rpm·s), rpm/(A·s), 1/s]
+    h : float
+        The step. [s]
+    slopes : callable
+        ``(i, n) -> (di/dt, dn/dt)``. [A/s], [rpm/s]
+
+    Returns
+    -------
+    tuple of float
+        ``(i1, n1, ei, en)``: the state after the step and the estimate of its local error (the last stage,
+        :math:`k_4`). [A], [rpm], [A], [rpm]
+
+    Notes
+    -----
+    .. math:: (I/(h\gamma) - J)\,k_i = f\Big(y_0 + \sum_j a_{ij} k_j\Big) + \sum_j \frac{c_{ij}}{h}\,k_j,
+              \qquad y_1 = y_0 + 2 k_1 + k_3 + k_4, \quad \gamma = 1/2
+
+    References
+    ----------
+    See the module docstring (Sandu et al. [2]_; Hairer and Wanner [3]_, Eq. 7.4').
+    """
+    j11, j12, j21, j22 = jacobian
+    # Stage matrix I/(h gamma) - J and its closed-form inverse (Eq. 7.4' of [3]).
+    g = 2.0 / h  # 1/(h gamma), gamma = 1/2
+    a11, a12, a21, a22 = g - j11, -j12, -j21, g - j22
+    det = a11 * a22 - a12 * a21
+    b11, b12, b21, b22 = a22 / det, -a12 / det, -a21 / det, a11 / det
+    inv_h = 1.0 / h
+    # RODAS3 stages [2]: k1 = G^-1 f(y0); k2 = G^-1 (f(y0) + 4 k1/h); ...
+    k1i = b11 * fi + b12 * fn
+    k1n = b21 * fi + b22 * fn
+    ri, rn = fi + 4.0 * inv_h * k1i, fn + 4.0 * inv_h * k1n
+    k2i = b11 * ri + b12 * rn
+    k2n = b21 * ri + b22 * rn
+    ui, un = i + 2.0 * k1i, n + 2.0 * k1n
+    si, sn = slopes(ui, un)
+    ri, rn = si + inv_h * (k1i - k2i), sn + inv_h * (k1n - k2n)
+    k3i = b11 * ri + b12 * rn
+    k3n = b21 * ri + b22 * rn
+    ui, un = ui + k3i, un + k3n
+    si, sn = slopes(ui, un)
+    ri = si + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
+    rn = sn + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
+    k4i = b11 * ri + b12 * rn
+    k4n = b21 * ri + b22 * rn
+    return ui + k4i, un + k4n, k4i, k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
+
+
+def checked_rtol(rtol) -> float:
+    r"""A relative tolerance for the Rosenbrock integrator, checked.
+
+    Parameters
+    ----------
+    rtol : float
+        Relative tolerance of the local error, from 1e-12 to 1e-2. [-]
+
+    Returns
+    -------
+    float
+        The tolerance. [-]
+
+    Notes
+    -----
+    .. math:: 10^{-12} \le \mathrm{rtol} \le 10^{-2}
+    """
+    value = require_positive("rtol", rtol)
+    if not 1e-12 <= value <= 1e-2:
+        raise InputError(f"rtol ({value:g}) must lie from 1e-12 to 1e-2")
+    return value
+
+
 def integrate_notch(
     flux: FluxCurve,
     v_eff_v: float,
@@ -573,8 +656,7 @@ def integrate_notch(
     i = require_non_negative("i0", i0_a, "A")
     n = require_non_negative("n0", n0_rpm, "rpm")
     t_max = require_positive("t_max", t_max_s, "s")
-    if not 1e-12 <= rtol <= 1e-2:
-        raise InputError(f"rtol ({rtol:g}) must lie from 1e-12 to 1e-2")
+    rtol = checked_rtol(rtol)
     max_steps = require_count("max_steps", max_steps, 1, 10_000_000)
     i_cut = None if i_cut_a is None else require_positive("i_cut", i_cut_a, "A")
     n_settle = None if n_settle_rpm is None else require_positive("n_settle", n_settle_rpm, "rpm")
@@ -622,7 +704,6 @@ def integrate_notch(
     knots = [(0.0, i, n, fi, fn)] if keep_history else None
     steps = rejected = 0
     status, message = "", ""
-    gamma = 0.5
     work_per_rpm_s = t_const * RAD_S_PER_RPM
     while True:
         if steps >= max_steps:
@@ -633,30 +714,7 @@ def integrate_notch(
         last = t + h >= t_max
         if last:
             h = t_max - t
-        # Stage matrix I/(h gamma) - J and its closed-form inverse (Eq. 7.4' of [3]).
-        g = 1.0 / (h * gamma)
-        a11, a12, a21, a22 = g - j11, -j12, -j21, g - j22
-        det = a11 * a22 - a12 * a21
-        b11, b12, b21, b22 = a22 / det, -a12 / det, -a21 / det, a11 / det
-        inv_h = 1.0 / h
-        # RODAS3 stages [2]: k1 = G^-1 f(y0); k2 = G^-1 (f(y0) + 4 k1/h); ...
-        k1i = b11 * fi + b12 * fn
-        k1n = b21 * fi + b22 * fn
-        ri, rn = fi + 4.0 * inv_h * k1i, fn + 4.0 * inv_h * k1n
-        k2i = b11 * ri + b12 * rn
-        k2n = b21 * ri + b22 * rn
-        ui, un = i + 2.0 * k1i, n + 2.0 * k1n
-        si, sn = slopes(ui, un)
-        ri, rn = si + inv_h * (k1i - k2i), sn + inv_h * (k1n - k2n)
-        k3i = b11 * ri + b12 * rn
-        k3n = b21 * ri + b22 * rn
-        ui, un = ui + k3i, un + k3n
-        si, sn = slopes(ui, un)
-        ri = si + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
-        rn = sn + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
-        k4i = b11 * ri + b12 * rn
-        k4n = b21 * ri + b22 * rn
-        i1, n1 = ui + k4i, un + k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
+        i1, n1, k4i, k4n = rosenbrock_step(i, n, fi, fn, (j11, j12, j21, j22), h, slopes)
         ei = k4i / (rtol * (swing + i_floor))
         en = k4n / (rtol * ((n if n > n1 else n1) + n_floor))
         err = math.sqrt(0.5 * (ei * ei + en * en))
