@@ -126,7 +126,7 @@ class MagnetizationCurve:
             saturating curve must not be guessed.
         """
         if isinstance(excitation, float) and excitation <= self.max_excitation:  # one value: the fast scalar cubic
-            return self._cubic(excitation if excitation > 0.0 else 0.0)[0]
+            return self._cubic(excitation)[0]  # held at its value at 0 below 0
         x = np.asarray(excitation, dtype=float)
         if np.any(x > self.max_excitation * (1.0 + 1e-12)):
             raise InputError(

@@ -218,8 +218,8 @@ def cubic_pieces(pchip):
 def cubic_evaluator(breaks, rows):
     """A function of one float ``x`` giving the piecewise cubic and its slope there: the one fast scalar evaluation.
 
-    Bisection for the interval (the first below the first break, the last above the last break) and
-    Horner's rule; the magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`),
+    Held at its first value (slope 0) at and below the first break; bisection for the interval (the last
+    continued above the last break) and Horner's rule; the magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`),
     the integrator's flux and the braking stop all use it.
 
     Parameters
@@ -239,12 +239,13 @@ def cubic_evaluator(breaks, rows):
     .. math:: P'(x) = (3 c_3 u + 2 c_2) u + c_1
     """
     last = len(rows) - 1
+    first, held = breaks[0], rows[0][3]
 
     def value_and_slope(x):
+        if x <= first:  # held at its first value below the first break
+            return held, 0.0
         k = bisect_right(breaks, x) - 1
-        if k < 0:
-            k = 0
-        elif k > last:
+        if k > last:
             k = last
         c3, c2, c1, c0 = rows[k]
         u = x - breaks[k]
@@ -305,20 +306,15 @@ def motor_flux(motor) -> FluxCurve:
 def _flux_evaluator(breaks, coefficients, offset_a, gain):
     """A function of the armature current giving :math:`k\\Phi` [V/rpm] and its slope [V/(rpm·A)].
 
-    The cubic of :func:`cubic_evaluator` at the excitation :math:`x_0 + g i`; below zero excitation the flux
-    is held at its value there.
+    The cubic of :func:`cubic_evaluator`, its pieces carried over once from the excitation
+    :math:`x = x_0 + g i` to the armature current (breaks :math:`(x_k - x_0)/g`, coefficients
+    :math:`c_m g^m`), so that each evaluation is one call; below zero excitation the flux is held.
     """
-    cubic = cubic_evaluator(breaks, coefficients)
-    held = coefficients[0][3]
-
-    def flux_and_slope(i_a):
-        x = offset_a + gain * i_a
-        if x <= 0.0:  # no excitation below zero: the flux is held there
-            return held, 0.0
-        value, slope = cubic(x)
-        return value, gain * slope
-
-    return flux_and_slope
+    if gain == 0.0:  # constant flux
+        constant = (coefficients[0][3], 0.0)
+        return lambda i_a: constant
+    return cubic_evaluator(tuple((x - offset_a) / gain for x in breaks),
+                           tuple((c3 * gain**3, c2 * gain**2, c1 * gain, c0) for c3, c2, c1, c0 in coefficients))
 
 
 @dataclass(frozen=True)
