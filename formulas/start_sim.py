@@ -34,7 +34,10 @@ for every kind of motor; the instant of breakaway follows in closed form. No
 solver steps across the standstill discontinuity.
 
 Shunt motor with a constant load: closed form (2 x 2 matrix exponential [2]_,
-exact energy integrals [3]_). Every other case is integrated (Radau [4]_).
+exact energy integrals [3]_). Every other case is integrated by a Rosenbrock
+method on plain floats (:mod:`notchwise.formulas.notch_integrator`); with
+``method="integrate"`` every case goes through scipy's Radau [4]_ instead, the
+independent second method the tests compare with.
 
 Switching. Current-limit: a notch is cut out when the current, having risen
 above the cut-out current, falls back to it. Definite-time: each notch is cut
