@@ -39,8 +39,9 @@ from .start_notch import MAX_STEPS_PER_NOTCH, SETTLED_FRACTION
 __all__ = ["FAST_RTOL", "GENERAL_RTOL", "integrated_running_phase"]
 
 #: Default relative tolerance of the fast path: peaks, dwells and energies within 0.05 % of an rtol 1e-10
-#: solve (tests/test_start_sim.py, a hypothesis test against solve_ivp). [-]
-FAST_RTOL = 5e-5
+#: solve (tests/test_start_sim.py, a hypothesis test against solve_ivp), with a margin: 5e-5 reached 0.055 % on
+#: the load work of a notch that breaks away (chosen by measurement). [-]
+FAST_RTOL = 2e-5
 #: Default relative tolerance of the general solver (Radau), the second method. [-]
 GENERAL_RTOL = 1e-7
 

@@ -301,7 +301,7 @@ def simulate_start(
         always integrates with the general solver (Radau: an independent
         second method, for checks). [-]
     rtol : float, optional
-        Relative tolerance of the integrator; by default 5e-5 for the fast
+        Relative tolerance of the integrator; by default 2e-5 for the fast
         integrator (peaks, dwells and energies within 0.05 %) and 1e-7 for
         the general solver. [-]
 
