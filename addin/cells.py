@@ -209,6 +209,24 @@ def width(value) -> int:
     return max((len(row) for row in _rows(value)), default=0)
 
 
+def _plain_numbers(rows):
+    """Rows of plain finite numbers, all of one length, as a 2-D array, read at once (a 10,000-row history); else None."""
+    try:
+        lengths = set(map(len, rows))
+        plain = len(lengths) == 1 and set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}
+    except TypeError:  # not rows of cells
+        return None
+    width = lengths.pop() if plain else 0
+    if not width:
+        return None
+    with np.errstate(over="ignore"):
+        try:
+            numbers = np.fromiter(itertools.chain.from_iterable(rows), dtype=float, count=len(rows) * width)
+        except OverflowError:  # an int beyond any float: the caller's path names its cell
+            return None
+    return numbers.reshape(len(rows), width) if np.all(np.isfinite(numbers)) else None
+
+
 def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, optional: bool = False):
     """A numeric table from a range, as an array of shape (rows, len(columns)).
 
@@ -216,6 +234,9 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
     (a range drawn larger than its data) are dropped. With ``optional`` an
     all-blank range gives None.
     """
+    numbers = _plain_numbers(value) if isinstance(value, (list, tuple)) else None
+    if numbers is not None and numbers.shape[0] >= min_rows and numbers.shape[1] >= len(columns):
+        return numbers[:, : len(columns)]
     rows = _rows(value)
     if rows and all(isinstance(c, str) for c in rows[0] if not _is_blank(c)) and not all(map(_is_blank, rows[0])):
         rows = rows[1:]
@@ -230,15 +251,9 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
     for r, row in enumerate(rows):
         if len(row) != len(rows[0]):
             raise InputError(f"{name} rows differ in length: row {r + 1} has {len(row)} cells, row 1 has {len(rows[0])}")
-    if set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}:
-        # Plain numbers (a 10,000-row history): checked at once; anything else takes the path that names the cell.
-        with np.errstate(over="ignore"):
-            try:
-                numbers = np.array(rows, dtype=float)
-            except OverflowError:  # an int beyond any float: the path below names its cell
-                numbers = np.full((1, 1), math.nan)
-        if np.all(np.isfinite(numbers)):
-            return numbers[:, : len(columns)]
+    numbers = _plain_numbers(rows)  # plain numbers under a header: read at once too
+    if numbers is not None:
+        return numbers[:, : len(columns)]
     return np.array(
         [
             [as_float(f"{name} row {r + 1} {col}", row[c], unit) for c, (col, unit) in enumerate(zip(columns, units))]

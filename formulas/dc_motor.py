@@ -31,6 +31,7 @@ References
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from functools import cached_property
 from typing import ClassVar
 
 import numpy as np
@@ -47,6 +48,7 @@ from .errors import (
     require_positive,
 )
 from .machines import NM_PER_V_A_PER_RPM
+from .notch_integrator import cubic_evaluator, cubic_pieces, motor_flux
 from .start_dc import advance_dc_notch
 
 __all__ = [
@@ -96,9 +98,18 @@ class MagnetizationCurve:
     speed_rpm: float | None
     excitation_name: str = "current"
     _interpolant: PchipInterpolator = field(init=False, repr=False, compare=False)
+    _pieces: tuple = field(init=False, repr=False, compare=False)
+    _cubic: object = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
         object.__setattr__(self, "_interpolant", PchipInterpolator(self.excitation, self.emf_v))
+        object.__setattr__(self, "_pieces", cubic_pieces(self._interpolant))
+        object.__setattr__(self, "_cubic", cubic_evaluator(*self._pieces))
+
+    @property
+    def pieces(self) -> tuple:
+        """Breaks [A] and per-interval cubic rows [V/A^k] of the curve's interpolant (:func:`~notchwise.formulas.notch_integrator.cubic_pieces`)."""
+        return self._pieces
 
     @property
     def max_excitation(self) -> float:
@@ -114,6 +125,8 @@ class MagnetizationCurve:
             Where an excitation lies beyond the last point of the table: a
             saturating curve must not be guessed.
         """
+        if isinstance(excitation, float) and excitation <= self.max_excitation:  # one value: the fast scalar cubic
+            return self._cubic(excitation)[0]  # held at its value at 0 below 0
         x = np.asarray(excitation, dtype=float)
         if np.any(x > self.max_excitation * (1.0 + 1e-12)):
             raise InputError(
@@ -230,9 +243,17 @@ class _DCMachine:
         """Developed torque at armature current ``i_a`` (no argument checks: see :func:`developed_torque_nm`). [N·m]"""
         return torque_nm(self.k_phi(i_a), i_a)  # Eqs. 7.1, 7.7 of [1]
 
+    @cached_property
+    def notch_flux(self):
+        """The flux as the fast integrator takes it (:func:`~notchwise.formulas.notch_integrator.motor_flux`), built once. [-]"""
+        return motor_flux(self)
+
     def speed_rpm(self, v_eff_v, r_circuit_ohm, i_a):
         """Speed at which a circuit of ``r_circuit_ohm`` carries ``i_a``; ``inf`` without flux. [rpm]"""
-        k_phi = np.asarray(self.k_phi(i_a), dtype=float)
+        k_phi = self.k_phi(i_a)
+        if isinstance(k_phi, float) and isinstance(v_eff_v, float) and isinstance(r_circuit_ohm, float):
+            return (v_eff_v - r_circuit_ohm * i_a) / k_phi if k_phi > 0.0 else np.inf  # Eq. 7.8 of [1], one value
+        k_phi = np.asarray(k_phi, dtype=float)
         emf = np.asarray(v_eff_v - np.multiply(r_circuit_ohm, i_a), dtype=float)
         with np.errstate(divide="ignore", over="ignore", invalid="ignore"):  # a vanishing flux is a runaway: inf
             n = np.where(k_phi > 0.0, emf / np.where(k_phi > 0.0, k_phi, 1.0), np.inf)  # Eq. 7.8 of [1]

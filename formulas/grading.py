@@ -47,7 +47,7 @@ import numpy as np
 from scipy.optimize import brentq
 
 from .dc_motor import effective_supply_v
-from .errors import DesignError, InputError, as_float, as_float_array, quantity, require_below, require_count, require_positive
+from .errors import DesignError, InputError, as_float_array, quantity, require_below, require_count, require_positive
 
 __all__ = [
     "MAX_NOTCHES",

@@ -73,6 +73,10 @@ __all__ = [
     "load_table",
     "NotchRun",
     "integrate_notch",
+    "cubic_pieces",
+    "cubic_evaluator",
+    "rosenbrock_step",
+    "checked_rtol",
     "STATUSES",
 ]
 
@@ -134,6 +138,11 @@ class FluxCurve:
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
         return self._evaluate(float(i_a))[0]
 
+    @property
+    def k_phi_and_slope(self):
+        """The function ``i [A] -> (kΦ [V/rpm], dkΦ/di [V/(rpm·A)])`` at one float current, for integrators."""
+        return self._evaluate
+
 
 def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain: float = 1.0) -> FluxCurve:
     r"""A :class:`FluxCurve` from a magnetization table, by its PCHIP interpolant.
@@ -175,9 +184,74 @@ def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain:
 
 
 def _pieces(pchip, speed_rpm, offset_a, gain):
-    """The :class:`FluxCurve` of a piecewise polynomial in scipy's form (``.x`` breaks, ``.c`` coefficients)."""
-    rows = tuple(tuple(c / speed_rpm for c in column) for column in pchip.c.T.tolist())
-    return FluxCurve(tuple(pchip.x.tolist()), rows, float(offset_a), float(gain))
+    """The :class:`FluxCurve` of a piecewise cubic in scipy's form (``.x`` breaks, ``.c`` coefficients)."""
+    return _scaled(cubic_pieces(pchip), speed_rpm, offset_a, gain)
+
+
+def _scaled(pieces, speed_rpm, offset_a, gain):
+    """The :class:`FluxCurve` of EMF pieces ``(breaks, rows)`` measured at ``speed_rpm``."""
+    breaks, rows = pieces
+    return FluxCurve(breaks, tuple(tuple(c / speed_rpm for c in row) for row in rows), float(offset_a), float(gain))
+
+
+def cubic_pieces(pchip):
+    """Breaks and per-interval power-basis rows (highest power first) of a scipy piecewise cubic, as tuples.
+
+    Parameters
+    ----------
+    pchip : scipy.interpolate.PPoly or PchipInterpolator
+        A piecewise cubic (``.x`` breaks, ``.c`` coefficients of shape (4, m)). [-]
+
+    Returns
+    -------
+    tuple
+        ``(breaks, rows)``: the breaks [x units] and, per interval, ``(c3, c2, c1, c0)`` in the variable
+        measured from the interval's start. [-]
+
+    Notes
+    -----
+    .. math:: P(x) = c_3 u^3 + c_2 u^2 + c_1 u + c_0, \\quad u = x - x_k
+    """
+    return tuple(pchip.x.tolist()), tuple(tuple(row) for row in pchip.c.T.tolist())
+
+
+def cubic_evaluator(breaks, rows):
+    """A function of one float ``x`` giving the piecewise cubic and its slope there: the one fast scalar evaluation.
+
+    Held at its first value (slope 0) at and below the first break; bisection for the interval (the last
+    continued above the last break) and Horner's rule; the magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`),
+    the integrator's flux and the braking stop all use it.
+
+    Parameters
+    ----------
+    breaks : sequence of float
+        Breaks, strictly rising. [x units]
+    rows : sequence of tuple
+        Per interval ``(c3, c2, c1, c0)`` as from :func:`cubic_pieces`. [-]
+
+    Returns
+    -------
+    callable
+        ``x -> (P(x), P'(x))``. [-]
+
+    Notes
+    -----
+    .. math:: P'(x) = (3 c_3 u + 2 c_2) u + c_1
+    """
+    last = len(rows) - 1
+    first, held = breaks[0], rows[0][3]
+
+    def value_and_slope(x):
+        if x <= first:  # held at its first value below the first break
+            return held, 0.0
+        k = bisect_right(breaks, x) - 1
+        if k > last:
+            k = last
+        c3, c2, c1, c0 = rows[k]
+        u = x - breaks[k]
+        return ((c3 * u + c2) * u + c1) * u + c0, (3.0 * c3 * u + 2.0 * c2) * u + c1
+
+    return value_and_slope
 
 
 def constant_flux(k_phi_v_per_rpm: float) -> FluxCurve:
@@ -225,32 +299,22 @@ def motor_flux(motor) -> FluxCurve:
     curve = getattr(motor, "curve", None)
     if curve is None or curve.speed_rpm is None:
         raise InputError("mag_curve and mag_speed are needed to simulate a series or compound motor")
-    # The curve validated its table when it was built; its interpolant is rebuilt here from the same points.
-    return _pieces(PchipInterpolator(curve.excitation, curve.emf_v), curve.speed_rpm,
-                   getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
+    # The curve validated its table when it was built and holds the pieces of its interpolant.
+    return _scaled(curve.pieces, curve.speed_rpm, getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
 
 
 def _flux_evaluator(breaks, coefficients, offset_a, gain):
     """A function of the armature current giving :math:`k\\Phi` [V/rpm] and its slope [V/(rpm·A)].
 
-    Bisection for the interval, Horner's rule for the cubic; the locals are bound once (the step loop
-    calls it three times a step).
+    The cubic of :func:`cubic_evaluator`, its pieces carried over once from the excitation
+    :math:`x = x_0 + g i` to the armature current (breaks :math:`(x_k - x_0)/g`, coefficients
+    :math:`c_m g^m`), so that each evaluation is one call; below zero excitation the flux is held.
     """
-    last = len(coefficients) - 1
-
-    def flux_and_slope(i_a):
-        x = offset_a + gain * i_a
-        if x <= 0.0:  # no excitation below zero: the flux is held there
-            c3, c2, c1, c0 = coefficients[0]
-            return c0, 0.0
-        k = bisect_right(breaks, x) - 1
-        if k > last:
-            k = last
-        c3, c2, c1, c0 = coefficients[k]
-        u = x - breaks[k]
-        return ((c3 * u + c2) * u + c1) * u + c0, gain * ((3.0 * c3 * u + 2.0 * c2) * u + c1)
-
-    return flux_and_slope
+    if gain == 0.0:  # constant flux
+        constant = (coefficients[0][3], 0.0)
+        return lambda i_a: constant
+    return cubic_evaluator(tuple((x - offset_a) / gain for x in breaks),
+                           tuple((c3 * gain**3, c2 * gain**2, c1 * gain, c0) for c3, c2, c1, c0 in coefficients))
 
 
 @dataclass(frozen=True)
@@ -282,7 +346,8 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
     speed_rpm : array_like
         Speeds, strictly rising. [rpm]
     torque_nm : array_like
-        Load torque at each speed, at or above zero. [N·m]
+        Load torque at each speed; below zero where the load drives the
+        shaft (a potential load: the caller decides what holds it at rest). [N·m]
 
     Returns
     -------
@@ -298,8 +363,6 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
         raise InputError(f"load speed has {n.size} values but load torque has {t.size}")
     if np.any(np.diff(n) <= 0.0):
         raise InputError("load speeds must rise strictly")
-    if np.any(t < 0.0):
-        raise InputError(f"load torque ({quantity(float(np.min(t)), 'N·m')}) must not be negative")
     return LoadTable(tuple(float(v) for v in n), tuple(float(v) for v in t))
 
 
@@ -433,6 +496,87 @@ def _slope_zero(a):
     return None
 
 
+def rosenbrock_step(i, n, fi, fn, jacobian, h, slopes):
+    r"""One RODAS3 step [2]_ of a 2-state system on plain floats: the new state and the error estimate.
+
+    Parameters
+    ----------
+    i, n : float
+        The state at the step's start (current, speed). [A], [rpm]
+    fi, fn : float
+        Its slopes there. [A/s], [rpm/s]
+    jacobian : tuple of float
+        ``(j11, j12, j21, j22)``, the exact Jacobian there. [1/s, A/(rpm·s), rpm/(A·s), 1/s]
+    h : float
+        The step. [s]
+    slopes : callable
+        ``(i, n) -> (di/dt, dn/dt)``. [A/s], [rpm/s]
+
+    Returns
+    -------
+    tuple of float
+        ``(i1, n1, ei, en)``: the state after the step and the estimate of its local error (the last stage,
+        :math:`k_4`). [A], [rpm], [A], [rpm]
+
+    Notes
+    -----
+    .. math:: (I/(h\gamma) - J)\,k_i = f\Big(y_0 + \sum_j a_{ij} k_j\Big) + \sum_j \frac{c_{ij}}{h}\,k_j,
+              \qquad y_1 = y_0 + 2 k_1 + k_3 + k_4, \quad \gamma = 1/2
+
+    References
+    ----------
+    See the module docstring (Sandu et al. [2]_; Hairer and Wanner [3]_, Eq. 7.4').
+    """
+    j11, j12, j21, j22 = jacobian
+    # Stage matrix I/(h gamma) - J and its closed-form inverse (Eq. 7.4' of [3]).
+    g = 2.0 / h  # 1/(h gamma), gamma = 1/2
+    a11, a12, a21, a22 = g - j11, -j12, -j21, g - j22
+    det = a11 * a22 - a12 * a21
+    b11, b12, b21, b22 = a22 / det, -a12 / det, -a21 / det, a11 / det
+    inv_h = 1.0 / h
+    # RODAS3 stages [2]: k1 = G^-1 f(y0); k2 = G^-1 (f(y0) + 4 k1/h); ...
+    k1i = b11 * fi + b12 * fn
+    k1n = b21 * fi + b22 * fn
+    ri, rn = fi + 4.0 * inv_h * k1i, fn + 4.0 * inv_h * k1n
+    k2i = b11 * ri + b12 * rn
+    k2n = b21 * ri + b22 * rn
+    ui, un = i + 2.0 * k1i, n + 2.0 * k1n
+    si, sn = slopes(ui, un)
+    ri, rn = si + inv_h * (k1i - k2i), sn + inv_h * (k1n - k2n)
+    k3i = b11 * ri + b12 * rn
+    k3n = b21 * ri + b22 * rn
+    ui, un = ui + k3i, un + k3n
+    si, sn = slopes(ui, un)
+    ri = si + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
+    rn = sn + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
+    k4i = b11 * ri + b12 * rn
+    k4n = b21 * ri + b22 * rn
+    return ui + k4i, un + k4n, k4i, k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
+
+
+def checked_rtol(rtol) -> float:
+    r"""A relative tolerance for the Rosenbrock integrator, checked.
+
+    Parameters
+    ----------
+    rtol : float
+        Relative tolerance of the local error, from 1e-12 to 1e-2. [-]
+
+    Returns
+    -------
+    float
+        The tolerance. [-]
+
+    Notes
+    -----
+    .. math:: 10^{-12} \le \mathrm{rtol} \le 10^{-2}
+    """
+    value = require_positive("rtol", rtol)
+    if not 1e-12 <= value <= 1e-2:
+        raise InputError(f"rtol ({value:g}) must lie from 1e-12 to 1e-2")
+    return value
+
+
 def integrate_notch(
     flux: FluxCurve,
     v_eff_v: float,
@@ -507,8 +651,7 @@ def integrate_notch(
     i = require_non_negative("i0", i0_a, "A")
     n = require_non_negative("n0", n0_rpm, "rpm")
     t_max = require_positive("t_max", t_max_s, "s")
-    if not 1e-12 <= rtol <= 1e-2:
-        raise InputError(f"rtol ({rtol:g}) must lie from 1e-12 to 1e-2")
+    rtol = checked_rtol(rtol)
     max_steps = require_count("max_steps", max_steps, 1, 10_000_000)
     i_cut = None if i_cut_a is None else require_positive("i_cut", i_cut_a, "A")
     n_settle = None if n_settle_rpm is None else require_positive("n_settle", n_settle_rpm, "rpm")
@@ -556,7 +699,6 @@ def integrate_notch(
     knots = [(0.0, i, n, fi, fn)] if keep_history else None
     steps = rejected = 0
     status, message = "", ""
-    gamma = 0.5
     work_per_rpm_s = t_const * RAD_S_PER_RPM
     while True:
         if steps >= max_steps:
@@ -567,30 +709,7 @@ def integrate_notch(
         last = t + h >= t_max
         if last:
             h = t_max - t
-        # Stage matrix I/(h gamma) - J and its closed-form inverse (Eq. 7.4' of [3]).
-        g = 1.0 / (h * gamma)
-        a11, a12, a21, a22 = g - j11, -j12, -j21, g - j22
-        det = a11 * a22 - a12 * a21
-        b11, b12, b21, b22 = a22 / det, -a12 / det, -a21 / det, a11 / det
-        inv_h = 1.0 / h
-        # RODAS3 stages [2]: k1 = G^-1 f(y0); k2 = G^-1 (f(y0) + 4 k1/h); ...
-        k1i = b11 * fi + b12 * fn
-        k1n = b21 * fi + b22 * fn
-        ri, rn = fi + 4.0 * inv_h * k1i, fn + 4.0 * inv_h * k1n
-        k2i = b11 * ri + b12 * rn
-        k2n = b21 * ri + b22 * rn
-        ui, un = i + 2.0 * k1i, n + 2.0 * k1n
-        si, sn = slopes(ui, un)
-        ri, rn = si + inv_h * (k1i - k2i), sn + inv_h * (k1n - k2n)
-        k3i = b11 * ri + b12 * rn
-        k3n = b21 * ri + b22 * rn
-        ui, un = ui + k3i, un + k3n
-        si, sn = slopes(ui, un)
-        ri = si + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
-        rn = sn + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
-        k4i = b11 * ri + b12 * rn
-        k4n = b21 * ri + b22 * rn
-        i1, n1 = ui + k4i, un + k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
+        i1, n1, k4i, k4n = rosenbrock_step(i, n, fi, fn, (j11, j12, j21, j22), h, slopes)
         ei = k4i / (rtol * (swing + i_floor))
         en = k4n / (rtol * ((n if n > n1 else n1) + n_floor))
         err = math.sqrt(0.5 * (ei * ei + en * en))
@@ -624,10 +743,12 @@ def integrate_notch(
             if s_rest <= s_end:
                 s_end, status = s_rest, "rest"
         if n_settle is not None and n1 >= n_settle:
-            s_ok = _settle_point(pi, pn, n_settle)
+            s_ok = _settle_point(pi, pn, n_settle, rtol * (swing + i_floor))
             if s_ok is not None and s_ok <= s_end:
                 s_end, status = s_ok, "settled"
-        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] else None
+        # A peak inside the step, on its cubic; not where the step spans many electrical time constants: there
+        # the current closes exponentially on its quasi-steady value and the cubic overshoots the ends.
+        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] and -h * j11 < 1.0 else None
         if s_peak is not None and s_peak <= s_end:
             value = _at(pi, s_peak)
             if value > peak:
@@ -670,14 +791,18 @@ def integrate_notch(
                     np.array(knots if keep_history else np.empty((0, 5)), dtype=float).reshape(-1, 5))
 
 
-def _settle_point(pi, pn, n_target):
-    """First s in [0, 1] with the speed at or above the target and the current not rising; None if none."""
+def _settle_point(pi, pn, n_target, flat):
+    """First s in [0, 1] with the speed at or above the target and the current not rising; None if none.
+
+    A rise of the current over the step below ``flat`` (its error tolerance [A]) is noise, not a rise: with a
+    tiny inductance the slope of a current at its steady value has either sign.
+    """
     n_end = _at(pn, 1.0)
-    if n_end < n_target or _slope(pi, 1.0) > 0.0:
+    if n_end < n_target or _slope(pi, 1.0) > flat:
         return None
     n_start = pn[0]
     s_speed = 0.0 if n_start >= n_target else _root(lambda s: _at(pn, s) - n_target, 0.0, 1.0, n_start - n_target, n_end - n_target)
-    if _slope(pi, s_speed) <= 0.0:
+    if _slope(pi, s_speed) <= flat:
         return s_speed
     s_peak = _slope_zero(pi)
     return 1.0 if s_peak is None else max(s_speed, s_peak)

@@ -57,7 +57,6 @@ from .relays import (
     definite_progress,
     definite_time_s,
     instantaneous_progress,
-    multiplier_for_time,
     operate_progress,
     operate_time_s,
 )

@@ -5,7 +5,9 @@ rest (the load's reaction at standstill exceeds the motor torque) the current
 is a first-order lag in closed form; in motion a shunt motor against a
 constant load follows the closed form of
 :mod:`notchwise.formulas.start_closed_form`, every other case is integrated
-(:mod:`notchwise.formulas.start_integrated`). The equations are those of
+(:mod:`notchwise.formulas.start_integrated`: the fast Rosenbrock integrator,
+or the general solver as the second method). The breakaway current is found
+only when the shaft is at rest. The equations are those of
 Fitzgerald, Kingsley, Umans [1]_:
 
 .. math::
@@ -91,11 +93,13 @@ def advance_dc_notch(machine, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_
         On the run after the last cut: the steady speed. [rpm]
     """
     v_eff, r, l_h, load = circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.load
-    i_break = breakaway_current_a(machine, load.at_rest_nm, v_eff / r)
-    closed = circuit.closed_form and machine.flux_constant and load.constant
+    i_break = None  # found only when the shaft is at rest
+    closed = circuit.fast and machine.flux_constant and load.constant
     t0 = notch.t
     for _ in range(MAX_PHASES_PER_NOTCH):
         remaining = t_left_s - (notch.t - t0)
+        if notch.n <= 0.0 and i_break is None:
+            i_break = breakaway_current_a(machine, load.at_rest_nm, v_eff / r)
         if notch.n <= 0.0 and notch.i < i_break:
             if held_phase(notch, v_eff, r, l_h, i_break, i_cut_a, remaining):
                 return
@@ -105,6 +109,6 @@ def advance_dc_notch(machine, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_
                               (notch.i, notch.n))
             if linear_running_phase(notch, lin, i_cut_a, remaining, final_speed_rpm):
                 return
-        if integrated_running_phase(notch, machine.k_phi, circuit, i_cut_a, remaining, t_cap_s, final_speed_rpm):
+        if integrated_running_phase(notch, machine, circuit, i_cut_a, remaining, t_cap_s, final_speed_rpm):
             return
     raise DesignError(f"{notch.name}: the shaft keeps stopping and starting; check the load at rest")

@@ -72,10 +72,14 @@ class NotchCircuit:
         Inertia referred to the motor shaft. [kg·m²]
     load : LoadTorque
         Load torque against speed (:mod:`notchwise.formulas.start_load`).
-    rtol : float
-        Relative tolerance of an integrator. [-]
-    closed_form : bool
-        False to integrate even where a closed form applies (a second method).
+    rtol : float or None
+        Relative tolerance of an integrator; None for the integrator's own default. [-]
+    fast : bool
+        True: the closed form where it applies and the fast integrator elsewhere; False: the general
+        solver throughout, an independent second method for checks. [-]
+    load_table : LoadTable or None
+        The load as the fast integrator takes it
+        (:func:`notchwise.formulas.notch_integrator.load_table`), built once per start. [-]
     """
 
     v_eff_v: float
@@ -83,8 +87,9 @@ class NotchCircuit:
     l_h: float
     inertia_kgm2: float
     load: object
-    rtol: float
-    closed_form: bool = True
+    rtol: float | None
+    fast: bool = True
+    load_table: object = None
 
 
 class NotchRecord:

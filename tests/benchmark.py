@@ -7,21 +7,17 @@ zero-argument callables; add yours to ``CASES`` under your subject.
 
 from __future__ import annotations
 
-import functools
+import os
 import statistics
 import timeit
-from contextlib import contextmanager
 
 import numpy as np
 from scipy.integrate import solve_ivp
 
 from notchwise.addin import udfs
 from notchwise.workbooks.audit import audit_bytes
-from notchwise.formulas import start_dc
-from notchwise.formulas.start_notch import SETTLED_FRACTION
 from notchwise.formulas.dc_motor import (NM_PER_V_A_PER_RPM, CompoundMotor, SeriesMotor, ShuntMotor, developed_torque_nm,
                                          magnetization_curve, steady_speed_rpm)
-from notchwise.formulas.notch_integrator import integrate_notch, load_table, motor_flux
 from notchwise.formulas.grading import check_sections, grade_uniform, notch_resistances_ohm
 from notchwise.formulas.protection import ride_through
 from notchwise.formulas.relays import CURVES, operate_time_s
@@ -165,30 +161,82 @@ SWEEP_POINTS = (10, 10, 10)
 
 
 def start_section() -> None:
-    """Time the 5-notch start against a tight general solve (Radau, rtol 1e-10) and a 1,000-corner sweep."""
+    """Time the 5-notch shunt start (closed form) against a plain LSODA solve, and its 1,000-corner sweep."""
     fast = simulate_start(**START)
     reference = simulate_start(**START, method="integrate", rtol=1e-10)
     peak_error = np.max(np.abs(fast.i_peak_a / reference.i_peak_a - 1.0))
     dwell_error = np.max(np.abs(fast.dwell_s / reference.dwell_s - 1.0))
     fast_ms = median_ms(lambda: simulate_start(**START))
-    reference_ms = median_ms(lambda: simulate_start(**START, method="integrate", rtol=1e-10), repeat=3)
+    lsoda_ms = median_ms(lambda: plain_lsoda_start(**START), repeat=3)
     general_ms = median_ms(lambda: simulate_start(**START, method="integrate"), repeat=3)
     print()
-    print(f"5-notch shunt start, closed form: {fast_ms:.3f} ms median (target 10 ms)")
-    print(f"  tight general solve (Radau rtol 1e-10): {reference_ms:.1f} ms, ratio {reference_ms / fast_ms:.0f}x;"
-          f" default general solve (rtol 1e-7): {general_ms:.1f} ms")
-    print(f"  largest difference from the tight solve: peak current {100 * peak_error:.2e} %,"
+    print(f"5-notch shunt start, closed form: {fast_ms:.3f} ms median (target 10 ms, no slower than before);"
+          f" ratio to a plain LSODA rtol 1e-9 solve ({lsoda_ms:.1f} ms) {fast_ms / lsoda_ms:.4f};"
+          f" the general solver (Radau rtol 1e-7): {general_ms:.1f} ms")
+    print(f"  largest difference from Radau at rtol 1e-10: peak current {100 * peak_error:.2e} %,"
           f" dwell {100 * dwell_error:.2e} % (target 0.5 %)")
-    motor = series_motor()
-    series = dict(motor=motor, v_supply_v=230.0, sections_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
-                  l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0)
-    series_error = np.max(np.abs(simulate_start(**series).i_peak_a / simulate_start(**series, rtol=1e-10).i_peak_a - 1.0))
-    print(f"4-notch series start (magnetization curve, Radau rtol 1e-7): {median_ms(lambda: simulate_start(**series), repeat=3):.1f} ms,"
-          f" peak within {100 * series_error:.1e} % of rtol 1e-10")
     arguments = {k: v for k, v in START.items() if k != "sections_ohm"}
     sweep_s = median_ms(lambda: sweep_corners(sections_20c_ohm=START_SECTIONS, hot_c=300.0, points=SWEEP_POINTS,
                                               **arguments), repeat=3) / 1e3
-    print(f"worst-case sweep, {np.prod(SWEEP_POINTS)} corners: {sweep_s:.2f} s median (target 2 s)")
+    print(f"shunt worst-case sweep, {np.prod(SWEEP_POINTS)} corners: {sweep_s:.2f} s median (target 2 s); ratio to"
+          f" 1,000 plain LSODA rtol 1e-9 starts ({lsoda_ms:.1f} s) {sweep_s / lsoda_ms:.4f}")
+
+
+def plain_lsoda_stop(motor, v_supply_v, r_brake_ohm, mode, l_circuit_h, inertia_kgm2, load, n_start_rpm, n_end_rpm,
+                     brush_drop_v=0.0):
+    """The same stop as a plain tight solve (solve_ivp LSODA, rtol 1e-9), written with no care for speed.
+
+    Constant load only (the benchmark's cases); the current of dynamic braking does not reverse.
+    """
+    c1 = NM_PER_V_A_PER_RPM
+    v_loop = -brush_drop_v if mode == "dynamic" else v_supply_v - brush_drop_v
+    r = motor.r_ohm + r_brake_ohm
+    top = motor.i_max_a
+
+    def rhs(t, state):
+        i, n = state[0], state[1]
+        flux = float(motor.k_phi(min(abs(i), top)))
+        di = (v_loop + flux * n - r * i) / l_circuit_h
+        if mode == "dynamic" and i <= 0.0 and di < 0.0:
+            di = 0.0
+        return [di, c1 * (-c1 * flux * i - load) / inertia_kgm2, i * i]
+
+    def reaches_end(t, state):
+        return state[1] - n_end_rpm
+
+    reaches_end.terminal, reaches_end.direction = True, -1.0
+    solution = solve_ivp(rhs, (0.0, 600.0), [0.0, n_start_rpm, 0.0], method="LSODA", rtol=1e-9, atol=1e-9,
+                         events=reaches_end)
+    return float(solution.t[-1]), float(solution.y[2, -1])
+
+
+#: The stops of CASES as (motor builder, arguments of simulate_stop after the motor).
+STOPS = {
+    "constant flux": (lambda: SHUNT, (460.0, 1.1, "dynamic", 0.006, 14.0, 500.0, 1150.0, 0.0, 0.0), 2.0),
+    "curve": (series_motor, (230.0, 0.8, "dynamic", 0.004, 6.5, 520.0, 900.0, 0.0, 2.0), 10.0),
+}
+
+
+def stop_section() -> None:
+    """The braking stop (RODAS3 on plain floats) beside a plain LSODA rtol 1e-9 solve of the same stop."""
+    print()
+    for name, (build, arguments, target) in STOPS.items():
+        fast = simulate_stop(build(), *arguments)
+        t_ref, i2t_ref = plain_lsoda_stop(build(), *arguments)
+        fast_ms = median_ms(lambda: simulate_stop(build(), *arguments))
+        lsoda_ms = median_ms(lambda: plain_lsoda_stop(build(), *arguments), repeat=3)
+        i2t = (fast.energy_brake_j + fast.energy_motor_j) / (build().r_ohm + arguments[1])
+        print(f"stop, {name}: {fast_ms:.2f} ms median (target {target:g} ms); ratio to a plain LSODA rtol 1e-9 solve"
+              f" ({lsoda_ms:.1f} ms) {fast_ms / lsoda_ms:.3f}; stop time within {100 * abs(fast.t_stop_s / t_ref - 1):.1e} %,"
+              f" i²t within {100 * abs(i2t / i2t_ref - 1):.1e} %")
+
+
+def ride_through_section() -> None:
+    """The add-in layer's cost on NW_RIDE_THROUGH over 10,000 samples, beside the core call."""
+    core, cell, _ = CASES["ride-through, 10,000 samples"]
+    core_ms, cell_ms = median_ms(core), median_ms(cell)
+    print(f"\nride-through, 10,000 samples: the add-in layer adds {cell_ms - core_ms:.2f} ms (target 2 ms) to the core's"
+          f" {core_ms:.2f} ms; ratio layer/core {(cell_ms - core_ms) / core_ms:.2f}")
 
 
 def rotor_start_section() -> None:
@@ -218,57 +266,6 @@ def compound_motor() -> CompoundMotor:
                          1200.0, 8.0)
 
 
-#: Flux curves and load tables already built, by the id of the machine or load they come from (kept alive beside).
-_BUILT = {}
-
-
-def _built(source, build):
-    """``build(source)``, once per source object: a start builds its flux curve and load table once, not per phase."""
-    entry = _BUILT.get(id(source))
-    if entry is None or entry[0] is not source:
-        entry = _BUILT[id(source)] = (source, build(source))
-    return entry[1]
-
-
-def rosenbrock_running_phase(notch, k_phi, circuit, i_cut, t_left, t_cap, final_speed=None, rtol=None):
-    """integrate_notch in the place of start_integrated.integrated_running_phase: same arguments, same returns.
-
-    This is the plug-in the integrated path takes (see the closing note of issue 12); here it is swapped in for
-    the benchmark only, by :func:`rosenbrock_path`.
-    """
-    flux = _built(k_phi.__self__, motor_flux)
-    table = _built(circuit.load, lambda load: load_table(load.speed_rpm, load.torque_nm))
-    run = integrate_notch(flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, table, notch.i,
-                          max(notch.n, 0.0), t_max_s=t_left if np.isfinite(t_left) else t_cap, i_cut_a=i_cut,
-                          n_settle_rpm=None if final_speed is None else SETTLED_FRACTION * final_speed,
-                          **({} if rtol is None else {"rtol": rtol}))
-    notch.add(run.duration_s, run.i_end_a, run.n_end_rpm, run.i_peak_a, run.charge_c, run.i2t_a2s, run.work_load_j,
-              run.state_at)
-    if run.status == "rest":
-        return False
-    if run.status in ("cut", "settled") or (run.status == "time" and np.isfinite(t_left)):
-        return True
-    raise notch.incomplete("step bound" if run.status == "step cap" else "stalls",
-                           run.message or f"did not end within {t_cap:.4g} s (the time cap)")
-
-
-@contextmanager
-def rosenbrock_path(rtol=None):
-    """Run simulate_start (and sweep_corners) with :func:`rosenbrock_running_phase` as the integrated path."""
-    saved = start_dc.integrated_running_phase
-    start_dc.integrated_running_phase = functools.partial(rosenbrock_running_phase, rtol=rtol)
-    try:
-        yield
-    finally:
-        start_dc.integrated_running_phase = saved
-
-
-def fast_start(rtol=None, **case):
-    """simulate_start with integrate_notch as its integrated path."""
-    with rosenbrock_path(rtol):
-        return simulate_start(**case)
-
-
 def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2, load, i_cut_a, brush_drop_v=0.0):
     """The same start as a plain tight solve (solve_ivp LSODA, rtol 1e-9), written with no care for speed.
 
@@ -296,35 +293,36 @@ def plain_lsoda_start(motor, v_supply_v, sections_ohm, l_circuit_h, inertia_kgm2
 
 
 def fast_start_section() -> None:
-    """Series and compound 4-notch starts through integrate_notch, beside simulate_start and a plain LSODA solve."""
+    """Series and compound 4-notch starts (simulate_start: the fast integrator), beside a plain LSODA rtol 1e-9 solve."""
     today = {}
     for name, motor in (("series", series_motor()), ("compound", compound_motor())):
         case = dict(motor=motor, v_supply_v=230.0, sections_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
                     l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0)
-        fast = fast_start(**case)
-        tight = simulate_start(**case, rtol=1e-10)
+        fast = simulate_start(**case)
+        tight = simulate_start(**case, method="integrate", rtol=1e-10)
         errors = {key: np.max(np.abs(np.atleast_1d(getattr(fast, key)) / np.atleast_1d(getattr(tight, key)) - 1.0))
                   for key in ("i_peak_a", "dwell_s", "i2t_a2s", "work_load_j", "i_peak_run_a", "t_accel_s")}
-        fast_ms = median_ms(lambda: fast_start(**case))
+        fast_ms = today[name] = median_ms(lambda: simulate_start(**case))
         lsoda_ms = median_ms(lambda: plain_lsoda_start(**case), repeat=3)
-        today_ms = today[name] = median_ms(lambda: simulate_start(**case), repeat=3)
-        print(f"4-notch {name} start through integrate_notch (RODAS3, rtol 5e-5): {fast_ms:.2f} ms median (target 5 ms);"
+        radau_ms = median_ms(lambda: simulate_start(**case, method="integrate"), repeat=3)
+        print(f"4-notch {name} start (simulate_start, RODAS3 rtol 2e-5): {fast_ms:.2f} ms median (target 5 ms);"
               f" ratio to a plain LSODA rtol 1e-9 solve ({lsoda_ms:.0f} ms) {fast_ms / lsoda_ms:.3f} (target 0.03);"
-              f" simulate_start today (Radau rtol 1e-7) {today_ms:.0f} ms, ratio {fast_ms / today_ms:.3f}")
-        print("  largest difference from simulate_start at rtol 1e-10: "
+              f" the general solver (Radau rtol 1e-7, method='integrate') {radau_ms:.0f} ms")
+        print("  largest difference from the general solver at rtol 1e-10: "
               + ", ".join(f"{key} {100 * value:.1e} %" for key, value in errors.items()) + " (target 0.05 %)")
     motor = series_motor()
     hoist = dict(motor=motor, v_supply_v=230.0, sections_20c_ohm=grade_uniform(motor, 230.0, 420.0, 290.0, None, 2.0).r_section_ohm,
                  l_circuit_h=0.004, inertia_kgm2=6.5, load=520.0, i_cut_a=301.0, brush_drop_v=2.0, hot_c=300.0,
                  points=(10, 10, 10))
     started = timeit.default_timer()
-    with rosenbrock_path():
-        sweep = sweep_corners(**hoist)
+    sweep = sweep_corners(**hoist)
     sweep_s = timeit.default_timer() - started
-    print(f"series hoist worst case over 1,000 corners (sweep_corners, integrate_notch as its integrated path):"
-          f" {sweep_s:.2f} s (target 5 s), {sweep.stalls} corners stall, highest peak"
-          f" {sweep.i_peak_a[sweep.worst_peak]:.1f} A; through today's path, estimated {today['series']:.0f} s"
-          f" (1,000 x the start's median in ms)")
+    lsoda_s = median_ms(lambda: plain_lsoda_start(**{k: v for k, v in hoist.items()
+                                                      if k not in ("sections_20c_ohm", "hot_c", "points")},
+                                                   sections_ohm=hoist["sections_20c_ohm"]), repeat=3)
+    print(f"series hoist worst case over 1,000 corners (sweep_corners): {sweep_s:.2f} s (target 5 s), ratio to"
+          f" 1,000 plain LSODA rtol 1e-9 starts ({lsoda_s:.1f} s) {sweep_s / lsoda_s:.3f}; {sweep.stalls} corners"
+          f" stall, highest peak {sweep.i_peak_a[sweep.worst_peak]:.1f} A")
 
 
 def median_ms(call, repeat: int = 7) -> float:
@@ -346,6 +344,9 @@ def main() -> None:
     start_section()
     rotor_start_section()
     fast_start_section()
+    stop_section()
+    ride_through_section()
+    print(f"\nload average (1, 5, 15 min) at the end: {', '.join(f'{x:.2f}' for x in os.getloadavg())}")
 
 
 if __name__ == "__main__":

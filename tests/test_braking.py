@@ -280,6 +280,10 @@ def test_dynamic_braking_to_standstill_with_nothing_opposing_is_refused():
         (lambda: brake_resistance_ohm("dynamic", V, 0.1, 0.0, 100.0), "e_motor (0 V) must be above zero"),
         (lambda: brake_resistance_ohm("dynamic", V, 0.1, 400.0, 1e4), "no braking resistor is needed"),
         (lambda: overspeed_margin(900.0, 0.0), "n_max (0 rpm) must be above zero"),
+        (lambda: simulate_stop(SHUNT, V, 0.9, "dynamic", 0.005, J, 0.0, 1000.0, 100.0, rtol=0.5),
+         "rtol (0.5) must lie from 1e-12 to 1e-2"),
+        (lambda: simulate_stop(SHUNT, V, 0.9, "dynamic", 0.005, J, 0.0, 1000.0, 100.0, rtol=0.0),
+         "rtol (0) must be above zero"),
     ],
 )
 def test_bad_inputs_give_a_message(call, words):

@@ -6,6 +6,7 @@ The motor data below are round numbers of our own, not from any published proble
 from __future__ import annotations
 
 import math
+import re
 
 import numpy as np
 import pytest
@@ -13,11 +14,13 @@ from hypothesis import event, given, settings
 from hypothesis import strategies as st
 from scipy import signal
 from scipy.integrate import solve_ivp
+from scipy.optimize import brentq
 
 from notchwise.formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
 from notchwise.formulas.dc_motor import SeriesMotor, magnetization_curve
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.grading import grade_uniform
+from notchwise.formulas.notch_integrator import load_table
 from notchwise.formulas.start_sim import StartIncomplete, load_torque, simulate_start, start_history
 from tests.conftest import COMPOUND_AMPERE_TURNS, TEST_SECTIONS_OHM, TEST_SHUNT
 
@@ -47,7 +50,9 @@ def test_shunt_peaks_tend_to_the_grading_table_as_inductance_vanishes():
 
 def test_series_peaks_tend_to_the_grading_table_as_inductance_vanishes():
     grading = grade_uniform(SERIES, V, 450.0, 300.0, None, VB)
-    result = simulate_start(SERIES, V, grading.r_section_ohm, 1e-6, 5.0, 300.0, i_cut_a=grading.i_switch_a[0], brush_drop_v=VB)
+    # 1 µH makes the circuit stiff far beyond a real drive's: the fast integrator needs a tighter tolerance there
+    result = simulate_start(SERIES, V, grading.r_section_ohm, 1e-6, 5.0, 300.0, i_cut_a=grading.i_switch_a[0], brush_drop_v=VB,
+                            rtol=1e-7)
     assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)
     assert result.i_peak_run_a == pytest.approx(grading.i_peak_a[0], rel=2e-3)
 
@@ -122,7 +127,8 @@ def _reference_definite_time(motor, sections, l_h, j, t_load, dwells):
 def test_definite_time_start_against_an_independent_solve_ivp(motor):
     sections = np.array([1.4, 0.8, 0.45, 0.25])
     dwells = np.array([0.6, 0.4, 0.3, 0.25])
-    result = simulate_start(motor, V, sections, 0.006, 3.0, 250.0, dwell_s=dwells, brush_drop_v=VB)
+    # rtol 1e-9: the check is at 1e-6, below the fast integrator's default accuracy (0.05 %)
+    result = simulate_start(motor, V, sections, 0.006, 3.0, 250.0, dwell_s=dwells, brush_drop_v=VB, rtol=1e-9)
     reference = list(_reference_definite_time(motor, sections, 0.006, 3.0, 250.0, np.append(dwells, 0.0001)))[:-1]
     for k, (_, i_end, n_end, peak, energy) in enumerate(reference):
         assert result.i_cut_a[k] == pytest.approx(i_end, rel=1e-6)
@@ -292,10 +298,32 @@ def test_a_light_series_load_is_reported_on_the_run_never_as_a_notch():
     assert "notch 5" not in str(error.value)
 
 
-def test_a_tiny_inertia_stops_at_the_step_bound_with_a_message():
+def test_a_tiny_inertia_stops_the_general_solver_at_the_step_bound_with_a_message():
     with pytest.raises(StartIncomplete, match="step bound") as error:
-        simulate_start(SERIES, V, [1.0, 0.5, 0.25], 0.01, 1e-6, 300.0, i_cut_a=200.0)
+        simulate_start(SERIES, V, [1.0, 0.5, 0.25], 0.01, 1e-6, 300.0, i_cut_a=200.0, method="integrate")
     assert error.value.outcome == "step bound" and error.value.notch == 1
+
+
+def test_a_tiny_inertia_runs_steadily_below_the_cut_out_on_the_fast_path():
+    # With almost no inertia the speed follows the current at once: the motor torque equals the load's 300 N·m
+    # and the current stays where it gives that torque (the motor's own torque law), below the 200 A cut-out.
+    with pytest.raises(StartIncomplete, match="never above the cut-out") as error:
+        simulate_start(SERIES, V, [1.0, 0.5, 0.25], 0.01, 1e-6, 300.0, i_cut_a=200.0)
+    assert error.value.outcome == "steady below cut-out" and error.value.notch == 1
+    i_load = brentq(lambda i: float(SERIES.torque_nm(i)) - 300.0, 1.0, 199.0)
+    peak = float(re.search(r"peak ([0-9.]+) A", str(error.value)).group(1))
+    assert peak == pytest.approx(i_load, rel=1e-2)  # a nanosecond mechanical time constant: within 1 %
+
+
+def test_a_tiny_inertia_on_a_small_step_bound_stops_the_fast_path_with_a_message():
+    from notchwise.formulas.start_notch import NotchCircuit, NotchRecord
+
+    notch = NotchRecord(1, 0.0, 0.0, 0.0, 3)
+    circuit = NotchCircuit(V - VB, 2.0, 0.01, 1e-6, load_torque(300.0), 1e-12,
+                           load_table=load_table([0.0], [300.0]))
+    with pytest.raises(StartIncomplete, match="step bound") as error:
+        SERIES.advance_notch(notch, circuit, 200.0, np.inf, 1e4, None)
+    assert error.value.outcome == "step bound"
 
 
 def test_a_standstill_current_below_the_cut_out_names_the_notch():
@@ -325,7 +353,7 @@ def test_compound_start_balances_and_tends_to_the_grading_table():
     motor = CompoundMotor(0.08, curve, 1500.0, 10.0)
     grading = grade_uniform(motor, V, 400.0, 250.0, None, VB)
     result = simulate_start(motor, V, grading.r_section_ohm, 1e-6, 5.0, 200.0, i_cut_a=grading.i_switch_a[0],
-                            brush_drop_v=VB, rtol=1e-10)
+                            brush_drop_v=VB, rtol=1e-8)
     assert np.allclose(result.i_peak_a, grading.i_peak_a, rtol=2e-3)  # the grading limit, as for the series motor
     assert np.all(np.abs(_balance_residuals(result, 1e-6, 5.0)) < 1e-7)
 
@@ -350,9 +378,11 @@ def test_overhauling_start_against_solve_ivp(load, method):
             return [(V - r * y[0] - k_phi * y[1]) / l_h, (C1 * k_phi * y[0] - float(table.at(y[1]))) / (j * 2.0 * math.pi / 60.0), y[0] ** 2]
         solution = solve_ivp(rhs, (0.0, dwell[k]), [state[0], state[1], 0.0], method="Radau", rtol=1e-10, atol=1e-9)
         state = solution.y[:, -1]
-        assert result.i_cut_a[k] == pytest.approx(state[0], rel=1e-5, abs=1e-3)
-        assert result.n_cut_rpm[k] == pytest.approx(state[1], rel=1e-5)
-        assert result.i2t_a2s[k] == pytest.approx(state[2], rel=1e-5)
+        # The general solver at rtol 1e-7; the fast integrator at its default, held to 0.05 % (issue 12's target).
+        tol = 1e-5 if method == "integrate" else 5e-4
+        assert result.i_cut_a[k] == pytest.approx(state[0], rel=tol, abs=1e-3)
+        assert result.n_cut_rpm[k] == pytest.approx(state[1], rel=tol)
+        assert result.i2t_a2s[k] == pytest.approx(state[2], rel=tol)
     # Steady state: the motor regenerates, T = T_L < 0, i = T_L / (C1 kΦ), n = (V - R i)/kΦ above no load.
     t_steady = float(table.at(result.n_final_rpm))
     assert result.i_final_a == pytest.approx(t_steady / (C1 * k_phi), rel=1e-8)
@@ -369,3 +399,77 @@ def test_a_series_motor_driven_by_its_load_runs_away():
 def test_a_reactive_load_still_refuses_negative_values_where_it_must():
     with pytest.raises(InputError, match="an overhauling load is outside this model"):
         load_torque(-5.0)
+
+
+# -- the fast integrator against a tight general solve (scipy's solve_ivp, LSODA at rtol 1e-10) ---------------
+
+
+def _tight_start(motor, sections, l_h, j, t_load, i_cut, n_final):
+    """The start notch by notch by solve_ivp (LSODA, rtol 1e-10), written here with no part of the code under test
+    but the motor's flux: per notch (peak, dwell, ∫i² dt, load work), then the run's peak and the time the speed
+    reaches the settled fraction of its final speed."""
+    v_eff = V - VB
+    rows, t0, y = [], 0.0, [0.0, 0.0]
+    r_all = np.append(motor.r_ohm + np.cumsum(np.asarray(sections)[::-1])[::-1], motor.r_ohm)
+    for k, r in enumerate(r_all):
+        last = k == len(sections)
+
+        def rhs(t, s, r=r):
+            i, n = s[0], s[1]
+            flux = float(motor.k_phi(max(i, 0.0)))
+            dn = C1 * (C1 * flux * i - t_load) / j
+            if n <= 0.0 and dn < 0.0:
+                dn = 0.0  # held at rest while the load out-pulls the motor
+            return [(v_eff - r * i - flux * n) / l_h, dn, i * i, t_load * RAD * n]
+
+        def peak(t, s):
+            return rhs(t, s)[0]
+
+        def ends(t, s):
+            return s[1] - SETTLED * n_final if last else s[0] - i_cut
+
+        peak.direction = -1.0
+        ends.terminal, ends.direction = True, (1.0 if last else -1.0)
+        sol = solve_ivp(rhs, (0.0, 200.0), [y[0], y[1], 0.0, 0.0], method="LSODA", rtol=1e-10,
+                        atol=[1e-8, 1e-8, 1e-6, 1e-4], events=[peak, ends])
+        assert sol.status == 1
+        top = max(y[0], float(np.max(sol.y[0])), *(sol.y_events[0][:, 0] if sol.y_events[0].size else [0.0]))
+        y = [float(sol.y[0, -1]), float(sol.y[1, -1])]
+        rows.append((top, float(sol.t[-1]), float(sol.y[2, -1]), float(sol.y[3, -1]), t0 + float(sol.t[-1])))
+        t0 += float(sol.t[-1])
+    return rows
+
+
+SETTLED = 0.98  # start_notch.SETTLED_FRACTION, the start's own definition of "settled"
+
+
+@settings(max_examples=12, deadline=None)
+@given(
+    kind=st.sampled_from(["series", "compound"]),
+    i_peak=st.floats(380.0, 470.0),
+    ratio=st.floats(0.62, 0.8),
+    l_h=st.floats(2e-3, 2e-2),
+    j=st.floats(2.0, 20.0),
+    load_share=st.floats(0.2, 0.6),
+)
+def test_fast_start_is_within_0p05_percent_of_a_tight_solve(kind, i_peak, ratio, l_h, j, load_share):
+    """Issue 12's accuracy target: peaks, dwells and energies within 0.05 % of solve_ivp at rtol 1e-10."""
+    from notchwise.formulas.dc_motor import CompoundMotor
+
+    if kind == "series":
+        motor = SERIES
+    else:
+        excitation, emf = zip(*COMPOUND_AMPERE_TURNS)
+        motor = CompoundMotor(0.08, magnetization_curve(excitation, emf, 800.0, "ampere-turns"), 1500.0, 10.0)
+    i_switch = ratio * i_peak
+    grading = grade_uniform(motor, V, i_peak, i_switch, None, VB)
+    t_load = load_share * float(motor.torque_nm(i_switch))
+    fast = simulate_start(motor, V, grading.r_section_ohm, l_h, j, t_load, i_cut_a=i_switch, brush_drop_v=VB)
+    rows = _tight_start(motor, grading.r_section_ohm, l_h, j, t_load, i_switch, fast.n_final_rpm)
+    peak, dwell, i2t, work, _ = (np.array(column) for column in zip(*rows[:-1]))
+    np.testing.assert_allclose(fast.i_peak_a, peak, rtol=5e-4)
+    np.testing.assert_allclose(fast.dwell_s, dwell, rtol=5e-4)
+    np.testing.assert_allclose(fast.i2t_a2s, i2t, rtol=5e-4)  # the resistor energy is (R_k - R_m) times this
+    np.testing.assert_allclose(fast.work_load_j, work, rtol=5e-4)
+    assert fast.i_peak_run_a == pytest.approx(rows[-1][0], rel=5e-4)
+    assert fast.t_accel_s == pytest.approx(rows[-1][4], rel=5e-4)
