@@ -188,7 +188,7 @@ def _rotor_stop_figures(result, end, at_end, n_max) -> list:
     motor="Two columns of name/value pairs as for NW_START_SIM (a DC motor block) [-]",
     sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
     load_torque="Load torque of the start: a number [N·m] or two columns, speed [rpm] and torque [N·m]",
-    switching="Cut-out current of current-limit switching [A], or a column of dwell times, one per section [s]",
+    switching="Switching current of current-limit switching [A], or a column of dwell times, one per section [s]",
     alloy="Grid alloy [-]: " + ", ".join(ALLOYS),
     mass="Mass of resistive element per section: one value for all, or a column [kg]",
     starts_per_hour="Starts per hour [1/h]",

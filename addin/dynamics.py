@@ -56,7 +56,7 @@ MOTOR_NAMES = tuple(dict.fromkeys(("kind", *(n for kind in KIND_NAMES for n in (
 UNITS = {"v_supply": "V", "r_motor": "ohm", "l_circuit": "H", "inertia": "kg·m²", "k_phi": "V/rpm",
          "mag_speed": "rpm", "brush_drop": "V", "shunt_at": "A", "series_turns": "turns", **ROTOR_NAMES}
 
-START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "cut-out current [A]",
+START_HEADER = ["notch", "start time [s]", "dwell [s]", "peak current [A]", "switching current [A]",
                 "speed at cut-out [rpm]", "energy in starting resistance [J]"]
 #: What the figures of the "whole start" row of START_HEADER's table are, column by column (the last for a wound rotor).
 WHOLE_START_HEADER = ["", "from [s]", "acceleration time [s]", "highest peak current [A]", "",
@@ -140,7 +140,7 @@ def start_from_cells(motor, sections, load_torque, switching, mag_curve):
     headers=_DOC["headers"],
 )
 def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, headers=None):
-    """Time-domain resistor start, one row per notch: start [s], dwell [s], peak and cut-out current [A], speed [rpm], energy [J]; then the run and the whole start."""
+    """Time-domain resistor start, one row per notch: start [s], dwell [s], peak and switching current [A], speed [rpm], energy [J]; then the run and the whole start."""
     machine, result = start_from_cells(motor, sections, load_torque, switching, mag_curve)
     nan = float("nan")
     rows = [
@@ -281,7 +281,7 @@ def worst_case_rows(sweep):
 #: Words for each outcome of a corner other than "ran" (formulas.worst_case.STATUSES), after "corners".
 _STATUS_LABELS = {
     "stalls": "in which a notch stalls",
-    "steady below cut-out": "that run steadily below the cut-out current",
+    "steady below cut-out": "that run steadily below the switching current",
     "accelerating": "still accelerating at the time cap",
     "runs away": "that run away",
     "step bound": "stopped at the step bound",

@@ -110,7 +110,7 @@ class Machine(Protocol):
         ``final_speed_rpm`` given (the run after the last cut), the speed
         has settled; adding each stretch with ``notch.add``. Raise
         :class:`~notchwise.formulas.start_notch.StartIncomplete` where the
-        notch cannot end (stalled, steady below the cut-out current, still
+        notch cannot end (stalled, steady below the switching current, still
         accelerating at ``t_cap_s``, or past the step bound
         :data:`~notchwise.formulas.start_notch.MAX_STEPS_PER_NOTCH`). DC
         machines contribute their 2-state circuit

@@ -615,7 +615,7 @@ def integrate_notch(
         able to break away (standstill is the caller's: there the current is a
         first-order lag in closed form). [A], [rpm]
     i_cut_a : float, optional
-        Cut-out current: stop where the current falls to it from above. [A]
+        Switching current: stop where the current falls to it from above. [A]
     n_settle_rpm : float, optional
         Stop at the first instant the speed is at or above this with the
         current falling (the run after the last cut). [rpm]

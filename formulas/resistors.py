@@ -377,7 +377,7 @@ def cold_hot_start(
         Temperature of the hot grid; by default each section's ambient plus
         its adiabatic rise in the cold start (the second of two starts in a row). [°C]
     i_cut_a : float, optional
-        Cut-out current of current-limit switching. [A]
+        Switching current of current-limit switching. [A]
     dwell_s : array_like, optional
         Dwell of each notch for definite-time switching, one per section. [s]
     brush_drop_v : float, optional

@@ -49,7 +49,7 @@ resistance; the start counts as finished when the speed reaches
 :data:`SETTLED_FRACTION` of the final speed, or at the last cut if it is
 already there.
 
-Stall. A step whose torque meets the load before its cut-out current is
+Stall. A step whose torque meets the load before its switching current is
 reached is refused by name; so is a standstill torque at or below the load at
 rest (the load is a reaction at rest and never drives the motor backwards).
 

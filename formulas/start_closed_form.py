@@ -54,7 +54,7 @@ def held_phase(notch, v_eff, r, l_h, i_break, i_cut, t_left):
         Breakaway current, at which the motor torque first exceeds the load at
         rest; ``inf`` where it never does. [A]
     i_cut : float or None
-        Cut-out current; None on definite time and on the run. [A]
+        Switching current; None on definite time and on the run. [A]
     t_left : float
         Time left on a definite-time notch; ``inf`` otherwise. [s]
 
@@ -210,7 +210,7 @@ def linear_running_phase(notch, lin, i_cut, t_left, final_speed=None):
     lin : LinearShunt
         The closed form of the notch, from its present state. [-]
     i_cut : float or None
-        Cut-out current; None on definite time and on the run. [A]
+        Switching current; None on definite time and on the run. [A]
     t_left : float
         Time left on a definite-time notch; ``inf`` otherwise. [s]
     final_speed : float, optional

@@ -84,7 +84,7 @@ def advance_dc_notch(machine, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_
     circuit : NotchCircuit
         The notch's circuit and shaft. [-]
     i_cut_a : float or None
-        Cut-out current; None on definite time and on the run. [A]
+        Switching current; None on definite time and on the run. [A]
     t_left_s : float
         Dwell of a definite-time notch; ``inf`` otherwise. [s]
     t_cap_s : float

@@ -12,7 +12,7 @@ integrated by the fast Rosenbrock method of
 floats, the flux curve and load table built once per machine and start), or,
 as the independent second method the checks use, by
 ``scipy.integrate.solve_ivp`` (Radau IIA, an implicit method for stiff
-systems, [2]_) with the cut-out current, the return to standstill and the
+systems, [2]_) with the switching current, the return to standstill and the
 settled speed as events, and the integrals of :math:`i`, :math:`i^2` and
 :math:`T_L\omega` as quadrature rows. The whole path is the one function
 :func:`integrated_running_phase`.
@@ -63,7 +63,7 @@ def integrated_running_phase(notch, machine, circuit, i_cut, t_left, t_cap, fina
         Supply, resistance, inductance, inertia, load (and its table) and tolerance of the notch;
         ``circuit.fast`` chooses the fast path, otherwise the general solver (Radau). [-]
     i_cut : float or None
-        Cut-out current; None on definite time and on the run. [A]
+        Switching current; None on definite time and on the run. [A]
     t_left : float
         Time left on a definite-time notch; ``inf`` otherwise. [s]
     t_cap : float
@@ -220,17 +220,17 @@ def _not_ended(notch, i_cut, t_cap, slope_rpm_s, final_speed):
         return notch.incomplete(
             "steady below cut-out",
             f"runs {'on, still accelerating,' if accelerating else 'steadily'} at {quantity(notch.n, 'rpm')} with its "
-            f"current never above the cut-out current ({quantity(i_cut, 'A')}; peak {quantity(notch.peak, 'A')}), "
-            "so the current relay never sees it fall: lower the cut-out current or cut on timers",
+            f"current never above the switching current ({quantity(i_cut, 'A')}; peak {quantity(notch.peak, 'A')}), "
+            "so the current relay never sees it fall: lower the switching current or cut on timers",
         )
     if accelerating:
         return notch.incomplete(
             "accelerating",
             f"is still accelerating at {quantity(notch.n, 'rpm')} {after} with the current at "
-            f"{quantity(notch.i, 'A')}, above the cut-out current ({quantity(i_cut, 'A')})",
+            f"{quantity(notch.i, 'A')}, above the switching current ({quantity(i_cut, 'A')})",
         )
     return notch.incomplete(
         "stalls",
         f"stalls at {quantity(notch.n, 'rpm')}: the current settles at {quantity(notch.i, 'A')}, above the cut-out "
-        f"current ({quantity(i_cut, 'A')}), {after}: raise the cut-out current or lighten the load",
+        f"current ({quantity(i_cut, 'A')}), {after}: raise the switching current or lighten the load",
     )

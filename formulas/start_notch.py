@@ -129,7 +129,7 @@ class NotchRecord:
 
 
 class StartIncomplete(DesignError):
-    """A start that does not reach its cut-out current or its steady speed, and what it does instead.
+    """A start that does not reach its switching current or its steady speed, and what it does instead.
 
     Attributes
     ----------

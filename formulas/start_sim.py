@@ -47,13 +47,13 @@ method on plain floats (:mod:`notchwise.formulas.notch_integrator`); with
 independent second method the tests compare with.
 
 Switching. Current-limit: a notch is cut out when the current, having risen
-above the cut-out current, falls back to it. Definite-time: each notch is cut
+above the switching current, falls back to it. Definite-time: each notch is cut
 out a fixed dwell after it began. After the last cut the motor runs on its own
 resistance; the start is taken as finished when, after the last cut, the
 speed first reaches 98 % of the final speed (:data:`SETTLED_FRACTION`,
 common practice, no source) and the current has passed its last peak.
 
-Stall. On notch :math:`k` the current can fall to the cut-out current
+Stall. On notch :math:`k` the current can fall to the switching current
 :math:`I_c` only if the motor, carrying :math:`I_c`, still out-pulls the load
 at the speed that current gives on this notch:
 :math:`T(I_c) > T_L(n_k(I_c))` with :math:`n_k(I) = (V - V_b - R_k I)/k\Phi(I)`.
@@ -62,7 +62,7 @@ taken. Every notch (and the run) is further bounded by a time cap
 (:data:`TIME_CAP_FACTOR` slow time constants) and by a number of integrator
 evaluations (:data:`MAX_STEPS_PER_NOTCH`); a start that stops says what
 happens instead (:class:`StartIncomplete`: stalls, runs steadily below the
-cut-out current, is still accelerating, runs away, or hit the step bound),
+switching current, is still accelerating, runs away, or hit the step bound),
 on which notch and at what speed. The run after the last cut is never
 called a notch.
 
@@ -242,32 +242,32 @@ def settling_current_a(motor: Machine, v_eff_v: float, r_ohm: float, load: LoadT
 
 
 def _check_stalls(motor, v_eff, r_notch, load, i_cut):
-    """Name the first notch on which the current cannot fall to the cut-out current."""
+    """Name the first notch on which the current cannot fall to the switching current."""
     for k, r in enumerate(r_notch[:-1]):
         if v_eff / r <= i_cut:
             raise StartIncomplete(
                 "steady below cut-out", k + 1, np.nan,
                 f"notch {k + 1}: its standstill current ({quantity(v_eff / r, 'A')}) does not rise above the "
-                f"cut-out current ({quantity(i_cut, 'A')}), so the current relay would never see it fall: "
-                "lower the cut-out current or the resistance in circuit",
+                f"switching current ({quantity(i_cut, 'A')}), so the current relay would never see it fall: "
+                "lower the switching current or the resistance in circuit",
             )
         speed = float(motor.speed_rpm(v_eff, r, i_cut))
         t_motor, t_load = float(motor.torque_nm(i_cut)), float(load.at(speed))
         if t_motor <= t_load:
             raise StartIncomplete(
                 "stalls", k + 1, speed,
-                f"notch {k + 1} stalls at {quantity(speed, 'rpm')}: at the cut-out current ({quantity(i_cut, 'A')}) "
+                f"notch {k + 1} stalls at {quantity(speed, 'rpm')}: at the switching current ({quantity(i_cut, 'A')}) "
                 f"the motor gives {quantity(t_motor, 'N·m')}, not more than the load's {quantity(t_load, 'N·m')} at "
-                "that speed, so the current settles above the cut-out value: raise the cut-out current or lighten the load",
+                "that speed, so the current settles above the cut-out value: raise the switching current or lighten the load",
             )
 
 
 def _switching(i_cut_a, dwell_s, sections):
-    """Cut-out current (or None) and dwell per notch (inf on current limit), checked."""
+    """Switching current (or None) and dwell per notch (inf on current limit), checked."""
     if (i_cut_a is None) == (dwell_s is None):
-        raise InputError("give either a cut-out current (current-limit) or dwell times (definite-time), not both")
+        raise InputError("give either a switching current (current-limit) or dwell times (definite-time), not both")
     if i_cut_a is not None:
-        return require_positive("cut-out current", i_cut_a, "A"), np.full(sections, np.inf)
+        return require_positive("switching current", i_cut_a, "A"), np.full(sections, np.inf)
     dwells = as_float_array("dwell", dwell_s, "s")
     if dwells.size != sections:
         raise InputError(f"dwell has {dwells.size} entries but sections has {sections}: one dwell per section")
@@ -310,7 +310,7 @@ def simulate_start(
         (speed [rpm], torque [N·m]); negative values make it a potential
         load that drives the shaft (module docstring). [N·m]
     i_cut_a : float, optional
-        Cut-out current of current-limit switching. [A]
+        Switching current of current-limit switching. [A]
     dwell_s : array_like, optional
         Dwell of each notch for definite-time switching, one per section. [s]
     brush_drop_v : float, optional
@@ -337,7 +337,7 @@ def simulate_start(
     Raises
     ------
     StartIncomplete
-        The start does not reach a cut-out current or its steady speed; its
+        The start does not reach a switching current or its steady speed; its
         ``outcome``, ``notch`` and ``speed_rpm`` say what happens instead.
 
     Notes

@@ -18,7 +18,7 @@ cut-out as a fraction of the motor torque,
 
 .. math:: m = \min_k \frac{T(I_{c,k}) - T_L(n_k)}{T(I_{c,k})}, \qquad n_k = \frac{V - V_b - R_k I_{c,k}}{k\Phi(I_{c,k})}.
 
-With current-limit switching :math:`I_{c,k}` is the set cut-out current and
+With current-limit switching :math:`I_{c,k}` is the set switching current and
 :math:`n_k` the speed at which notch :math:`k` would carry it; a margin at or
 below zero is a stall of that notch, found for all corners at once with numpy
 before any corner is simulated. With definite-time switching the current and
@@ -169,7 +169,7 @@ def sweep_corners(
         Values per axis (supply, tolerance, temperature), each 1 to 100; one
         value is the middle of that range. [-]
     i_cut_a : float, optional
-        Cut-out current of current-limit switching. [A]
+        Switching current of current-limit switching. [A]
     dwell_s : array_like, optional
         Dwell of each notch for definite-time switching, one per section. [s]
     brush_drop_v : float, optional
@@ -233,11 +233,11 @@ def sweep_corners(
     status_notch = np.zeros(v.size, dtype=int)
     reason = [""] * v.size
     if i_cut_a is not None and not motor.quasi_steady:  # a quasi-steady machine's margin comes from its start
-        margins = _margin(motor, v_eff, r_notch, load, as_float("cut-out current", i_cut_a, "A"))
+        margins = _margin(motor, v_eff, r_notch, load, as_float("switching current", i_cut_a, "A"))
         least = np.min(margins, axis=1)
         for c in np.nonzero(~(least > 0.0))[0]:  # these stall by the criterion: no need to simulate them
             status[c], status_notch[c] = "stalls", int(np.argmin(margins[c])) + 1
-            reason[c] = f"notch {status_notch[c]} stalls: the motor at the cut-out current does not out-pull the load"
+            reason[c] = f"notch {status_notch[c]} stalls: the motor at the switching current does not out-pull the load"
     else:
         margins = np.full(r_notch.shape, np.nan)
     for c in (k for k in range(v.size) if status[k] == "ran"):

@@ -79,10 +79,10 @@ def reference(motor, r, l_h, j, load, i0, n0, i_cut):
 def test_notch_matches_a_tight_lsoda_solve(compound, r, ratio, l_h, j, i_cut, load_share, table):
     """Peak, dwell, end speed, integrals and load work within 0.05 % of LSODA at rtol 1e-10 (scipy)."""
     motor = COMPOUND if compound else SERIES
-    r = min(r, 0.8 * V / (ratio * i_cut))  # the notch before must have been turning at the cut-out current
+    r = min(r, 0.8 * V / (ratio * i_cut))  # the notch before must have been turning at the switching current
     flux = float(motor.k_phi(i_cut))
     t_cut = C1 * flux * i_cut
-    n0 = (V - ratio * r * i_cut) / flux  # where the notch before, with more resistance, carried the cut-out current
+    n0 = (V - ratio * r * i_cut) / flux  # where the notch before, with more resistance, carried the switching current
     if table:  # a load rising with speed (a fan-like share), always below the motor's torque at cut-out
         rows = [[0.0, 0.3 * load_share * t_cut], [0.5 * n0 + 1.0, 0.6 * load_share * t_cut], [3.0 * n0 + 10.0, load_share * t_cut]]
     else:

@@ -238,7 +238,7 @@ def test_the_shaft_stays_at_rest_until_the_motor_out_pulls_the_load():
         ({"load": [[0.0, 5.0], [100.0, -5e5]]}, "the overhauling load runs the shunt motor away"),
         ({"i_cut_a": 60.0}, "notch 1 stalls"),
         ({"i_cut_a": None, "dwell_s": [0.5, 0.5]}, "dwell has 2 entries but sections has 3"),
-        ({"i_cut_a": None}, "give either a cut-out current"),
+        ({"i_cut_a": None}, "give either a switching current"),
         ({"sections_ohm": [1.0, -0.2]}, "sections entry 2 (-0.2 ohm) must be above zero"),
         ({"method": "euler"}, "method ('euler') must be one of: auto, integrate"),
     ],
@@ -264,7 +264,7 @@ def test_load_table_validation():
 
 
 def test_any_shunt_start_balances_or_gives_a_message():
-    # The cut-out current is drawn as a share of notch 1's standstill current, so that most examples run a
+    # The switching current is drawn as a share of notch 1's standstill current, so that most examples run a
     # whole start and reach the balance check; the share that does is asserted below.
     outcomes = {"ran": 0, "message": 0}
     i_standstill = (V - VB) / (SHUNT.r_ohm + 3.75)
@@ -307,7 +307,7 @@ def test_a_tiny_inertia_stops_the_general_solver_at_the_step_bound_with_a_messag
 def test_a_tiny_inertia_runs_steadily_below_the_cut_out_on_the_fast_path():
     # With almost no inertia the speed follows the current at once: the motor torque equals the load's 300 N·m
     # and the current stays where it gives that torque (the motor's own torque law), below the 200 A cut-out.
-    with pytest.raises(StartIncomplete, match="never above the cut-out") as error:
+    with pytest.raises(StartIncomplete, match="never above the switching current") as error:
         simulate_start(SERIES, V, [1.0, 0.5, 0.25], 0.01, 1e-6, 300.0, i_cut_a=200.0)
     assert error.value.outcome == "steady below cut-out" and error.value.notch == 1
     i_load = brentq(lambda i: float(SERIES.torque_nm(i)) - 300.0, 1.0, 199.0)

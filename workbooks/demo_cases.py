@@ -131,7 +131,7 @@ CONVEYOR_START = DemoCase(
     inputs={"i_cut": 245.0},
 )
 
-#: Each start in time: its machine case and the case holding its switching (the cut-out current). The
+#: Each start in time: its machine case and the case holding its switching (the switching current). The
 #: workbook's Hoist start sheet and ``notchwise diagram`` both take their inputs from these pairs.
 STARTS = {HOIST.key: (HOIST, HOIST_START), CONVEYOR.key: (CONVEYOR, CONVEYOR_START)}
 

@@ -151,7 +151,7 @@ def _draw_start(plt, arguments):
     timeline.plot(history.t_s, history.i_a, color=current, lw=2.0, label="armature current")
     speed_axis.plot(history.t_s, history.n_rpm, color=speed, lw=2.0, label="speed")
     timeline.axhline(data["i_peak"], color=current, ls=":", lw=1.0, label=f"design peak {data['i_peak']:.0f} A")
-    timeline.axhline(i_cut, color=current, ls="--", lw=1.0, label=f"cut-out current {i_cut:.0f} A")
+    timeline.axhline(i_cut, color=current, ls="--", lw=1.0, label=f"switching current {i_cut:.0f} A")
     timeline.vlines(cuts, 0.0, 1.0, transform=timeline.get_xaxis_transform(), colors=GREY, lw=0.8, ls="--",
                     label="cut-out instants")
     for k, t_cut in enumerate(cuts):
@@ -187,7 +187,7 @@ def _draw_start(plt, arguments):
         plane.plot(i, n, color=colours[k], lw=1.2, label=label)
     plane.plot(history.i_a, history.n_rpm, color="black", lw=2.2, label="path of the start")
     plane.plot(result.i_cut_a, result.n_cut_rpm, "o", color="black", ms=4, label="cut-out points")
-    plane.axvline(i_cut, color=current, ls="--", lw=1.0, label=f"cut-out current {i_cut:.0f} A")
+    plane.axvline(i_cut, color=current, ls="--", lw=1.0, label=f"switching current {i_cut:.0f} A")
     plane.axvline(data["i_peak"], color=current, ls=":", lw=1.0, label=f"design peak {data['i_peak']:.0f} A")
     plane.set_xlim(0.0, i_top)
     plane.set_ylim(0.0, 1.25 * result.n_final_rpm)
