@@ -101,3 +101,12 @@ def test_build_reference_says_what_it_wrote_and_where(tmp_path, capsys):
     out = capsys.readouterr().out
     assert f"Wrote the Notchwise reference workbook to {path.resolve()}" in out and CAUTION in out
     assert path.is_file()
+
+
+def test_format_table_moves_a_long_first_cell_of_a_row_of_words_under_it():
+    from notchwise.workbooks.demo import format_table
+
+    rows = [["section", "energy [J]", "verdict"], [1, 4692.4, "ok"], ["a closing note far longer than a column", float("nan"), "x"]]
+    text = format_table(rows, width=40)
+    assert max(len(line) for line in text.splitlines()) <= 40
+    assert "section: a closing note far longer than a column" in " ".join(text.split()) and "4,692" in text

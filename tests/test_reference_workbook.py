@@ -301,3 +301,44 @@ def test_the_install_line_is_the_readme_s_and_computed_cells_is_a_manifest():
     assert any("notchwise freeze" in line for line in HOW_TO_GO_LIVE)
     computed = openpyxl.load_workbook(REFERENCE)["Computed cells"]
     assert "manifest" in computed["A1"].value and "manifest" in computed["A2"].value
+
+
+def test_hoist_lowering_speeds_rise_with_resistance_and_its_chart_draws_nw_cells():
+    # Steady dynamic lowering of a DC motor: T = (60/2π)kΦ(I)I fixes I and kΦ for a torque, and
+    # kΦ(I)n = Vb + I(Rm + Rx) (A. E. Fitzgerald, C. Kingsley Jr., S. D. Umans, Electric Machinery, 6th ed.,
+    # McGraw-Hill, 2003, Eqs. 7.7-7.8), so at one torque the speed rises along a straight line in Rx.
+    archive = zipfile.ZipFile(REFERENCE)
+    charts = [archive.read(n).decode() for n in archive.namelist() if n.startswith("xl/charts/chart")]
+    chart = next(c for c in charts if "one line per lowering point" in c)
+    refs = re.findall(r"<c:f>([^<]+)</c:f>", chart)
+    assert len(refs) == 8  # x and y of four series, one per lowering point
+    contents = _contents(REFERENCE)["cells"]
+    book = openpyxl.load_workbook(REFERENCE)
+    values = openpyxl.load_workbook(REFERENCE, data_only=True)
+    resistance = {name: values[d.attr_text.split("!")[0].strip("='")][d.attr_text.split("!")[1].replace("$", "")].value
+                  for name, d in book.defined_names.items() if name.startswith("hoist_lowering_r")}
+    columns = []
+    for x_ref, y_ref in zip(refs[::2], refs[1::2]):
+        sheet, cells = y_ref.rsplit("!", 1)
+        assert sheet.strip("'") == "Hoist lowering"
+        formulas = [contents["Hoist lowering", cell.coordinate][0] for (cell,) in book["Hoist lowering"][cells.replace("$", "")]]
+        assert all(f.startswith("=NW_LOWERING_SPEED(") for f in formulas), y_ref
+        (point,) = {re.search(r"hoist_lowering_r\d", f).group(0) for f in formulas}
+        saved = [values["Hoist lowering"][cell.coordinate].value for (cell,) in book["Hoist lowering"][cells.replace("$", "")]]
+        columns.append((resistance[point], saved))
+    columns.sort()
+    r = [c[0] for c in columns]
+    assert len(set(r)) == 4
+    for row in zip(*(c[1] for c in columns)):
+        assert all(b > a for a, b in zip(row, row[1:]))  # more resistance, faster descent
+        slopes = [(row[k] - row[0]) / (r[k] - r[0]) for k in range(1, 4)]
+        assert slopes == pytest.approx([slopes[0]] * 3, rel=1e-6)  # a straight line in Rx
+    checks = sorted(  # the checks at light and full load: (resistance, speeds of the body's first two rows)
+        (resistance[re.search(r"hoist_lowering_r\d", v[0]).group(0)],
+         [values["Hoist lowering"][c].offset(row=k, column=1).value for k in (1, 2)])
+        for (s, c), v in contents.items() if s == "Hoist lowering" and str(v[0]).startswith("=NW_LOWERING_CHECK("))
+    assert [r for r, _ in checks] == r
+    for _, (light, full) in checks:
+        assert full > light > 0
+    for row in zip(*(speeds for _, speeds in checks)):
+        assert all(b > a for a, b in zip(row, row[1:]))

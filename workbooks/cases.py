@@ -497,3 +497,85 @@ CAUTIONS = (
     "practice prevail.",
     "The demo drives (Port of Merrow, Caldbeck Quarry) are invented; their data belong to no real machine.",
 )
+
+
+# -- Hoist lowering (issue 10): appended as one block, so that parallel sheets append their own ---------------
+from notchwise.workbooks.demo_cases import HOIST_LOWERING  # noqa: E402
+
+#: Basis of the braking and lowering figures (notchwise.formulas.braking, notchwise.formulas.resistors).
+BRAKING_BASIS = (
+    "Dynamic braking and lowering of DC motors: R = E/I - Ra; L di/dt = kΦ(i)n - Vb - R i, J dω/dt = -T(i) - T_L; "
+    "steady lowering n = (Vb + I(Rm + Rx))/kΦ(I) with T(I) = T_L (notchwise.formulas.braking): G. K. Dubey, "
+    "Fundamentals of Electrical Drives, 2nd ed., Narosa, 2001, ch. 5, and P. C. Sen, Principles of Electric Machines "
+    "and Power Electronics, 2nd ed., Wiley, 1997, ch. 4 (both from memory); A. E. Fitzgerald, C. Kingsley Jr., "
+    "S. D. Umans, Electric Machinery, 6th ed., McGraw-Hill, 2003, Eqs. 7.7-7.8, sec. 7.9."
+)
+
+#: What the Hoist lowering sheet says before any figure.
+LOWERING_NOTE = (
+    "In dynamic lowering MORE resistance means a FASTER descent: each lowering point further on lowers the load "
+    "faster. A series field that fails to build up (too much resistance, too light a load, too low a speed) lets "
+    "the load fall almost unbraked. Overspeed protection and a mechanical brake that holds the load are needed "
+    "whatever these figures say. Results must be checked by a competent person; local codes and licensed "
+    "practice prevail."
+)
+
+
+def _hoist_lowering_sheet() -> Sheet:
+    w = HOIST_LOWERING.inputs
+    points = [f"hoist_lowering_r{k + 1}" for k in range(len(w["lowering_points"]))]
+    lowering = (Literal("dynamic"),)
+    cycle = ("hoist_motor", "hoist_sections", "hoist_load_torque", "hoist_i_cut", "hoist_alloy", "hoist_grid_mass",
+             "hoist_cycle_starts", Literal("dynamic"), "hoist_load_torque", "hoist_cycle_n_stop", "hoist_cycle_stops",
+             None, None, None, "hoist_mag_curve")
+    return Sheet(
+        name="Hoist lowering",
+        title=HOIST_LOWERING.title,
+        story=HOIST_LOWERING.story + " Motor data, curve, n_max, hook load, grid and sections are those of the Hoist "
+        "and Hoist start sheets, taken by their defined names.",
+        inputs=(
+            Input("hoist_n_full", "Full hoisting speed with the hook load (as braking begins)", w["n_full"], "rpm"),
+            Input("hoist_e_full", "Back-EMF at that speed", w["e_full"], "V"),
+            Input("hoist_i_brake", "Highest braking current allowed as braking begins", w["i_brake"], "A"),
+            Table("hoist_lowering_torque", "Lowering torque on the motor shaft: light (empty spreader), then full load",
+                  ("torque [N·m]",), [[w["lowering_light"]], [w["lowering_full"]]]),
+            *(Input(name, f"Lowering point {k + 1}: resistance outside the motor", r, "ohm")
+              for k, (name, r) in enumerate(zip(points, w["lowering_points"]))),
+            Input("hoist_cycle_starts", "Cycle: starts per hour, each against the hook load", w["starts_per_hour"],
+                  "1/h"),
+            Input("hoist_cycle_stops", "Cycle: dynamic braking stops per hour on the whole grid", w["stops_per_hour"],
+                  "1/h"),
+            Input("hoist_cycle_n_stop", "Cycle: speed as each stop begins (the driver notches back first)",
+                  w["n_stop"], "rpm"),
+        ),
+        results=(
+            Result("Braking resistor that holds the current to i_brake as dynamic braking begins", "NW_BRAKE_RESISTOR",
+                   (Literal("dynamic"), "hoist_v_supply", "hoist_r_motor", "hoist_e_full", "hoist_i_brake"),
+                   BRAKING_BASIS, unit="ohm", name="hoist_r_brake"),
+            Result("Stop from full speed with the hook load, dynamic braking on that resistor", "NW_STOP_SIM",
+                   ("hoist_motor", "hoist_r_brake", Literal("dynamic"), "hoist_load_torque", "hoist_n_full", None,
+                    "hoist_mag_curve", None, "hoist_n_max"), BRAKING_BASIS),
+            *(Result(f"Lowering point {k + 1}: lowering speed at light and full load, margin to n_max",
+                     "NW_LOWERING_CHECK", ("hoist_motor", name, "hoist_lowering_torque", *lowering, "hoist_n_max",
+                                           "hoist_mag_curve"), BRAKING_BASIS)
+              for k, name in enumerate(points)),
+            Result("Grid over the cycle: starts and dynamic braking stops per hour", "NW_CYCLE_HEATING", cycle,
+                   FUNCTION_BASIS["heating"]),
+        ),
+        sweeps=(
+            Sweep(
+                "Lowering speed against lowering torque on every lowering point",
+                Table("hoist_lowering_sweep_torque", "Lowering torque", ("lowering torque [N·m]",),
+                      [[t] for t in w["sweep_torque"]]),
+                tuple((f"point {k + 1} [rpm]", "NW_LOWERING_SPEED",
+                       ("hoist_motor", name, EACH, *lowering, "hoist_mag_curve"), BRAKING_BASIS)
+                      for k, name in enumerate(points)),
+                Chart("Hoist lowering: speed against lowering torque, one line per lowering point", x=0,
+                      y=tuple(range(1, len(points) + 1)), y_label="lowering speed [rpm]"),
+            ),
+        ),
+        notes=(LOWERING_NOTE, SERIES_WARNING),
+    )
+
+
+SHEETS = (*SHEETS, _hoist_lowering_sheet())

@@ -57,10 +57,14 @@ def _columns(header, body, width=WIDTH):
     """Aligned lines of ``body`` under ``header``, within ``width``.
 
     Headings are wrapped (never inside a word); a text cell longer than NOTE_FROM (a basis, a
-    message) is printed under its row, wrapped, and a column left with nothing else is dropped.
+    message; in a row of words only, its first cell too) is printed under its row, wrapped, and a
+    column left with nothing else is dropped.
     """
     text = [[_cell(c) for c in row] for row in body]
-    long = [[k > 0 and len(cell) > NOTE_FROM for k, cell in enumerate(row)] for row in text]
+    wordy = [not any(isinstance(c, (int, float)) and not isinstance(c, bool) and not math.isnan(c) for c in row)
+             for row in body]  # a row of words only (a table's closing note): its first cell may go below too
+    long = [[(k > 0 or words) and len(cell) > NOTE_FROM for k, cell in enumerate(row)]
+            for row, words in zip(text, wordy)]
     shown = [k for k in range(len(header)) if any(row[k] and not flags[k] for row, flags in zip(text, long))]
     for row, flags in zip(text, long):
         for k in shown:

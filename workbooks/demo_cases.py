@@ -214,3 +214,26 @@ MILL = DemoCase(
         "sweep_speed": [float(n) for n in range(0, 1001, 50)],
     },
 )
+#: The Merrow hoist lowering and stopping: its braking resistor, lowering points and duty cycle (invented).
+HOIST_LOWERING = DemoCase(
+    key="hoist lowering",
+    title="Merrow quay crane 3, main hoist: dynamic lowering, the braking stop and the grid over a duty cycle",
+    story=(
+        "The quay crane 3 hoist lowers a container in dynamic lowering: the series motor, driven by the load, "
+        "brakes on four lowering points of resistance; it stops a lift from full speed by dynamic braking, and "
+        "its grid works a stated cycle of starts and braking stops per hour."
+    ),
+    inputs={
+        "n_full": 770.0,  # full hoisting speed with the hook load [rpm]
+        "e_full": 216.0,  # back-EMF at that speed [V]
+        "i_brake": 300.0,  # highest braking current allowed [A]
+        "lowering_light": 150.0,  # empty spreader, on the motor shaft [N·m]
+        "lowering_full": 470.0,  # rated container less the gearing losses, on the motor shaft [N·m]
+        "lowering_points": [0.35, 0.50, 0.70, 0.95],  # lowering resistance per point, first to last [ohm]
+        "starts_per_hour": 30.0,
+        "stops_per_hour": 30.0,
+        "n_stop": 700.0,  # each stop of the cycle begins once the driver has notched back [rpm]
+        "sweep_torque": [100.0, 150.0, 200.0, 250.0, 300.0, 350.0, 400.0, 450.0, 500.0, 550.0],
+    },
+)
+__all__.append("HOIST_LOWERING")  # appended with its case, so parallel cases add their own lines
