@@ -418,7 +418,7 @@ def _brake_from(r_section_ohm, brake_from) -> tuple[np.ndarray, int]:
 
 
 def braking_grid_ohm(r_section_ohm, brake_from: int = 1) -> float:
-    """Braking resistance made of the grid's sections ``brake_from`` to the last (those in circuit on that notch).
+    r"""Braking resistance made of the grid's sections ``brake_from`` to the last (those in circuit on that notch).
 
     Parameters
     ----------
