@@ -44,6 +44,7 @@ from .errors import (
     InputTypeError,
     as_float_array,
     quantity,
+    require_below,
     require_non_negative,
     require_positive,
 )
@@ -269,9 +270,15 @@ class _DCMachine:
         advance_dc_notch(self, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_speed_rpm)
 
 
+#: Largest machine figures accepted: far beyond any DC machine, so that scaled nonsense is refused before
+#: its squares overflow (common practice, no source). [ohm], [V/rpm]
+R_MOTOR_LIMIT_OHM = 1e4
+K_PHI_LIMIT_V_PER_RPM = 1e3
+
+
 def _machine_resistance(r_ohm) -> float:
     """The motor's own circuit resistance, checked. [ohm]"""
-    return require_positive("r_motor", r_ohm, "ohm")
+    return require_below("r_motor", require_positive("r_motor", r_ohm, "ohm"), "the limit", R_MOTOR_LIMIT_OHM, "ohm")
 
 
 def _checked_curve(curve, kind: str, optional: bool = False):
@@ -321,7 +328,8 @@ class ShuntMotor(_DCMachine):
     def __post_init__(self):
         object.__setattr__(self, "r_ohm", _machine_resistance(self.r_ohm))
         if self.k_phi_v_per_rpm is not None:
-            object.__setattr__(self, "k_phi_v_per_rpm", require_positive("k_phi", self.k_phi_v_per_rpm, "V/rpm"))
+            k_phi = require_positive("k_phi", self.k_phi_v_per_rpm, "V/rpm")
+            object.__setattr__(self, "k_phi_v_per_rpm", require_below("k_phi", k_phi, "the limit", K_PHI_LIMIT_V_PER_RPM, "V/rpm"))
 
     def require_dynamics(self) -> None:
         """Refuse speed or torque without k_phi."""

@@ -31,7 +31,9 @@ from __future__ import annotations
 import math
 from typing import ClassVar, Protocol, runtime_checkable
 
-__all__ = ["NM_PER_V_A_PER_RPM", "RAD_S_PER_RPM", "Machine"]
+from .errors import InputTypeError, shown
+
+__all__ = ["NM_PER_V_A_PER_RPM", "RAD_S_PER_RPM", "Machine", "checked_machine"]
 
 #: Torque per (V/rpm · A): T = k_phi · I · 60 / (2 pi), from P = E I = T omega, Eq. 7.1 of [1]. [N·m/(V·A/rpm)]
 NM_PER_V_A_PER_RPM = 60.0 / (2.0 * math.pi)
@@ -145,3 +147,29 @@ class Machine(Protocol):
     def mechanical_time_constant_s(self, r_circuit_ohm: float, inertia_kgm2: float, i_a: float) -> float: ...
 
     def advance_notch(self, notch, circuit, i_cut_a, t_left_s, t_cap_s, final_speed_rpm) -> None: ...
+
+
+#: The members every caller asks first: enough to tell a machine from a stray value.
+_FIRST_MEMBERS = ("kind", "quasi_steady", "require_dynamics", "r_ohm")
+
+
+def checked_machine(motor, name: str = "motor"):
+    """Return ``motor`` if it offers the machine interface's first members, else refuse it by name.
+
+    Parameters
+    ----------
+    motor : object
+        The machine: one of the kinds of :mod:`notchwise.formulas` (shunt,
+        series, compound, wound rotor). [-]
+    name : str, optional
+        Argument name used in the message. [-]
+
+    Returns
+    -------
+    Machine
+        The machine, unchanged. [-]
+    """
+    if not all(hasattr(motor, member) for member in _FIRST_MEMBERS):
+        raise InputTypeError(f"{name} ({shown(motor)}) is not a machine: build it from a motor kind (shunt, series, "
+                             "compound or wound rotor)")
+    return motor

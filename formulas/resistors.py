@@ -35,6 +35,7 @@ from .errors import (
     DesignError, InputError, as_float, as_float_array, choose, quantity, require_count, require_non_negative, require_positive,
 )
 from .grading import checked_sections
+from .machines import checked_machine
 from .start_sim import StartResult, simulate_start
 
 __all__ = [
@@ -392,6 +393,7 @@ def cold_hot_start(
     -----
     .. math:: R(\theta) = R_{20}[1 + \alpha(\theta - 20)], \qquad \Delta\theta = E_s/(m c)
     """
+    checked_machine(motor)
     sections = checked_sections(sections_20c_ohm)
     masses = as_float_array("mass", mass_kg, "kg")
     if masses.size not in (1, sections.size):

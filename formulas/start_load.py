@@ -22,7 +22,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from .errors import InputError, as_float_array, quantity
+from .errors import InputError, as_float_array, quantity, shown
 
 __all__ = ["LoadTorque", "load_torque"]
 
@@ -99,7 +99,7 @@ def load_torque(torque, signed: bool = False) -> LoadTorque:
             raise InputError(f"load_torque ({quantity(value, 'N·m')}) must not be negative: an overhauling load is outside this model")
         return LoadTorque(np.array([0.0]), np.array([value]))
     if rows.ndim != 2 or rows.shape[1] < 2:
-        raise InputError("load_torque must be a number or two columns: speed [rpm] and torque [N·m]")
+        raise InputError(f"load_torque ({shown(torque)}) must be a number or two columns: speed [rpm] and torque [N·m]")
     speed = as_float_array("load_torque speed", rows[:, 0], "rpm")
     value = as_float_array("load_torque torque", rows[:, 1], "N·m")
     if speed[0] < 0.0:

@@ -90,9 +90,9 @@ import numpy as np
 from scipy.optimize import brentq
 
 from .dc_motor import effective_supply_v
-from .errors import InputError, as_float_array, choose, quantity, require_count, require_positive
+from .errors import InputError, as_float_array, choose, quantity, require_count, require_positive, shown
 from .grading import checked_sections, notch_resistances_ohm
-from .machines import Machine
+from .machines import Machine, checked_machine
 from .rotor_start import simulate_rotor_start
 from .notch_integrator import load_table
 from .start_load import LoadTorque, load_torque
@@ -265,7 +265,8 @@ def _check_stalls(motor, v_eff, r_notch, load, i_cut):
 def _switching(i_cut_a, dwell_s, sections):
     """Switching current (or None) and dwell per notch (inf on current limit), checked."""
     if (i_cut_a is None) == (dwell_s is None):
-        raise InputError("give either a switching current (current-limit) or dwell times (definite-time), not both")
+        given = "neither" if i_cut_a is None else f"both (i_cut_a {shown(i_cut_a)}, dwell_s {shown(dwell_s)})"
+        raise InputError(f"give either a switching current (current-limit) or dwell times (definite-time): {given} given")
     if i_cut_a is not None:
         return require_positive("switching current", i_cut_a, "A"), np.full(sections, np.inf)
     dwells = as_float_array("dwell", dwell_s, "s")
@@ -367,6 +368,7 @@ def simulate_start(
     >>> round(float(start.n_final_rpm), 1), round(float(start.t_accel_s), 2)
     (1011.8, 1.55)
     """
+    checked_machine(motor)
     v_eff = effective_supply_v(v_supply_v, brush_drop_v)
     sections = checked_sections(sections_ohm)
     j = require_positive("inertia", inertia_kgm2, "kg·m²")

@@ -64,11 +64,7 @@ LABELS = {("checked_element", "name")}
 #: Arguments passed on to the start in time (``formulas/start_sim.py`` and the motor classes), whose checks
 #: the machine-interface work is rewriting: known to let a raw error through or to omit the value.
 #: (function, argument) -> (what happens, the kinds of wrong value it happens for).
-DELEGATED = {
-    ("cold_hot_start", "motor"): ("a motor given as text/None/list/dict raises AttributeError in start_sim", object),
-    ("cold_hot_start", "load"): ("a ragged load table gives a message without the value (start_sim load model)", list),
-    ("cold_hot_start", "dwell_s"): ("a bad dwell beside i_cut_a gives 'not both' without the value (start_sim)", object),
-}
+DELEGATED: dict = {}
 
 
 def _cases():

@@ -133,7 +133,7 @@ class TestMessages:
             simulate_rotor_start(MOTOR, SECTIONS, -5.0, i_cut_a=I_CUT)
         with pytest.raises(InputError, match="must be above zero"):
             simulate_rotor_start(MOTOR, [0.3, 0.0], 0.0, i_cut_a=I_CUT)
-        with pytest.raises(InputError, match="load_torque must be a number or two columns"):
+        with pytest.raises(InputError, match=r"load_torque \(\[1.0, 2.0, 3.0\]\) must be a number or two columns"):
             simulate_rotor_start(MOTOR, SECTIONS, [1.0, 2.0, 3.0], i_cut_a=I_CUT)
 
 
