@@ -16,7 +16,7 @@ from .cells import (
     ERROR_PREFIX, cell_function, column, flag, guard, each, name_values, number, number_or_column, number_or_table, option,
     optional_count, optional_number, spill,
 )
-from .dynamics import MOTOR_NAMES, motor_from_cells, start_arguments
+from .dynamics import MOTOR_NAMES, START_HELP, motor_from_cells, start_arguments
 from .induction import ROTOR_KIND, ROTOR_NAMES, wound_rotor_from_cells
 from .protection import caution_row, figure_table
 
@@ -186,10 +186,10 @@ def _rotor_stop_figures(result, end, at_end, n_max) -> list:
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mass", "stop_torque", "mag_curve"),
     motor="Two columns of name/value pairs as for NW_START_SIM (a DC motor block) [-]",
-    sections="Section resistances at 20 °C in the order they are cut out: a column or row [ohm]",
+    sections=START_HELP["sections_20c"],
     load_torque="Load torque of the start: a number [N·m] or two columns, speed [rpm] and torque [N·m]",
-    switching="Switching current of current-limit switching [A], or a column of dwell times, one per section [s]",
-    alloy="Grid alloy [-]: " + ", ".join(ALLOYS),
+    switching=START_HELP["switching"],
+    alloy=START_HELP["alloy"],
     mass="Mass of resistive element per section: one value for all, or a column [kg]",
     starts_per_hour="Starts per hour [1/h]",
     stop_mode="Braking connection of the stop: dynamic or plugging [-]",
@@ -199,7 +199,7 @@ def _rotor_stop_figures(result, end, at_end, n_max) -> list:
     brake_from="Optional first section of the braking resistor [-]: the stop's current flows through it and every later section; blank: 1 (the whole grid)",
     n_end="Optional speed the stop is taken to [rpm]; blank: 0 rpm",
     ambient="Optional grid temperature at ambient [°C]; blank: 20 °C",
-    mag_curve="Series: current [A] and EMF [V] at mag_speed; compound: ampere-turns per pole [A] and EMF [V]; blank for shunt",
+    mag_curve=START_HELP["mag_curve"],
     headers=_DOC["headers"],
 )
 def NW_CYCLE_HEATING(motor, sections, load_torque, switching, alloy, mass, starts_per_hour, stop_mode, stop_torque, n_stop,

@@ -70,7 +70,8 @@ HEATING_HEADER = ["section", "R cold [ohm]", "R hot [ohm]", "energy per start [J
                   "mean power [W]", "rise per start [K]", "peak cold [A]", "peak hot [A]", "verdict"]
 WORST_HEADER = ["figure", "value", "supply [V]", "tolerance [-]", "grid temperature [°C]", "notch"]
 
-_DOC = {
+#: Help for the arguments of the start in time, with units; the braking functions reuse it.
+START_HELP = {
     "motor": "Name/value pairs: kind; DC: v_supply [V], r_motor [ohm], l_circuit [H], inertia [kg·m²], k_phi [V/rpm] or mag_speed [rpm], ...; wound rotor: the block of NW_GRADE_ROTOR",
     "sections": "Section resistances in the order they are cut out (wound rotor: per phase, rotor side): a column or row [ohm]",
     "load_torque": "Load torque on the motor shaft: a number [N·m] or two columns, speed [rpm] and torque [N·m]; a negative value makes it a gravity load that drives the shaft, even at rest",
@@ -82,8 +83,8 @@ _DOC = {
     "sections_20c": "Section resistances at 20 °C in the order they are cut out (wound rotor: per phase, rotor side): a column or row [ohm]",
 }
 #: Help for the four arguments that describe a start, shared by every function here.
-_START_DOCS = {name: _DOC[name] for name in ("motor", "sections", "load_torque", "switching")}
-_GRID_DOCS = {**_START_DOCS, "sections": _DOC["sections_20c"]}
+_START_DOCS = {name: START_HELP[name] for name in ("motor", "sections", "load_torque", "switching")}
+_GRID_DOCS = {**_START_DOCS, "sections": START_HELP["sections_20c"]}
 
 
 def motor_from_cells(motor, mag_curve):
@@ -136,8 +137,8 @@ def start_from_cells(motor, sections, load_torque, switching, mag_curve):
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
     **_START_DOCS,
-    mag_curve=_DOC["mag_curve"],
-    headers=_DOC["headers"],
+    mag_curve=START_HELP["mag_curve"],
+    headers=START_HELP["headers"],
 )
 def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, headers=None):
     """Time-domain resistor start, one row per notch: start [s], dwell [s], peak and switching current [A], speed [rpm], energy [J]; then the run and the whole start."""
@@ -163,8 +164,8 @@ def NW_START_SIM(motor, sections, load_torque, switching, mag_curve=None, header
     tables=("motor", "sections", "load_torque", "switching", "mag_curve"),
     **_START_DOCS,
     points="Number of evenly spaced times, 2 to 100000 [-]",
-    mag_curve=_DOC["mag_curve"],
-    headers=_DOC["headers"],
+    mag_curve=START_HELP["mag_curve"],
+    headers=START_HELP["headers"],
 )
 def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=None, headers=None):
     """Time history of a resistor start at evenly spaced times: time [s], current [A], speed [rpm], motor torque [N·m]; wound rotor: rotor current, stator current [A] last."""
@@ -180,13 +181,13 @@ def NW_START_HISTORY(motor, sections, load_torque, switching, points, mag_curve=
 @cell_function(
     tables=("motor", "sections", "load_torque", "switching", "mass", "mag_curve"),
     **_GRID_DOCS,
-    alloy=_DOC["alloy"],
+    alloy=START_HELP["alloy"],
     mass="Mass of resistive element per section (wound rotor: its three phases): one value for all, or a column [kg]",
     starts_per_hour="Starts per hour, for r.m.s. current and mean power [1/h]",
-    ambient=_DOC["ambient"],
+    ambient=START_HELP["ambient"],
     hot="Optional hot-grid temperature [°C]; blank: ambient plus each section's rise in one start",
-    mag_curve=_DOC["mag_curve"],
-    headers=_DOC["headers"],
+    mag_curve=START_HELP["mag_curve"],
+    headers=START_HELP["headers"],
 )
 def NW_SECTION_HEATING(
     motor, sections, load_torque, switching, alloy, mass, starts_per_hour, ambient=None, hot=None, mag_curve=None,
@@ -218,12 +219,12 @@ def NW_SECTION_HEATING(
     v_low="Low end of the supply band as a fraction of v_supply, e.g. -0.1 [-]",
     v_high="High end of the supply band as a fraction of v_supply, e.g. 0.1 [-]",
     tolerance="Resistor tolerance, swept from -tolerance to +tolerance, e.g. 0.05 [-]",
-    alloy=_DOC["alloy"],
+    alloy=START_HELP["alloy"],
     hot="Hottest grid temperature [°C]",
     points="Values per axis: one number for all, or three (supply, tolerance, temperature) [-]",
-    ambient=_DOC["ambient"],
-    mag_curve=_DOC["mag_curve"],
-    headers=_DOC["headers"],
+    ambient=START_HELP["ambient"],
+    mag_curve=START_HELP["mag_curve"],
+    headers=START_HELP["headers"],
 )
 def NW_WORST_CASE(
     motor, sections, load_torque, switching, v_low, v_high, tolerance, alloy, hot, points, ambient=None,
