@@ -274,9 +274,10 @@ def _hoist_protection_sheet() -> Sheet:
                  "hoist_i_max", None, "hoist_highset", "hoist_highset_delay"),
                 FUNCTION_BASIS["relay"],
                 parts=(
-                    Part("hoist_t_motor_at_i_max", 1, 1, row="motor protection operates in"),
-                    Part("hoist_t_upstream_at_i_max", 1, 1, row="upstream must take at least"),
                     Part("hoist_multiplier_up", 1, 1, row="upstream multiplier at least"),
+                    Part("hoist_i_tightest", 1, 1, row="interval is tightest at"),
+                    Part("hoist_t_motor_tightest", 1, 1, row="motor protection there"),
+                    Part("hoist_t_upstream_tightest", 1, 1, row="upstream there"),
                 ),
             ),
             Result(
@@ -316,10 +317,11 @@ def _hoist_protection_sheet() -> Sheet:
                   [[Link("hoist_i_stall"), Link("hoist_t_stall")]]),
             Table("hoist_running_drawn", "Running (full-load) current, drawn across the time axis", two,
                   [[Link("hoist_i_full_load"), p["drawn_times"][0]], [Link("hoist_i_full_load"), p["drawn_times"][1]]]),
-            Table("hoist_interval_drawn", "Coordination interval at i_max: motor protection, then feeder", two, [
-                [Link("hoist_i_max"), Link("hoist_t_motor_at_i_max")],
-                [Link("hoist_i_max"), Link("hoist_t_upstream_at_i_max")],
-            ]),
+            Table("hoist_interval_drawn", "Coordination interval where it is tightest: motor protection, then feeder",
+                  two, [
+                      [Link("hoist_i_tightest"), Link("hoist_t_motor_tightest")],
+                      [Link("hoist_i_tightest"), Link("hoist_t_upstream_tightest")],
+                  ]),
         ),
         charts=(
             Chart(
@@ -335,7 +337,7 @@ def _hoist_protection_sheet() -> Sheet:
                     Series("thermal element, hot", relay, 0, 3, "thermal hot", "dash"),
                     Series("stall point (withstand time)", "hoist_stall_drawn", 0, 1, "stall", "points"),
                     Series("feeder relay upstream", feeder, 0, 1, "feeder relay"),
-                    Series("coordination interval at i_max", "hoist_interval_drawn", 0, 1, "interval"),
+                    Series("coordination interval where tightest", "hoist_interval_drawn", 0, 1, "interval"),
                 ),
             ),
         ),
