@@ -428,10 +428,20 @@ class WoundRotorMotor:
                 f"the torque asked ({quantity(torque_nm, 'N·m')}) is below a billionth of the breakdown torque "
                 f"({quantity(t_max, 'N·m')}): enter it in N·m"
             )
+        return self._stable_r_over_s(v_th, z_th, torque_nm, 1.0)
+
+    def _stable_r_over_s(self, v_th, z_th, torque_nm: float, sign: float) -> float:
+        r"""The stable root :math:`x = R'/s` of Eq. 6.36 of [1]_ at torque ``torque_nm``, motoring (``sign`` +1) or generating (-1).
+
+        .. math:: T x^2 + (2 T R_{th} - \sigma k) x + T (R_{th}^2 + X^2) = 0,\qquad
+                  x = \sigma\,rac{b + \sqrt{b^2 - 4 T^2 (R_{th}^2 + X^2)}}{2T},\quad b = k - 2\sigma T R_{th}
+
+        [ohm]
+        """
         k = 3.0 * abs(v_th) ** 2 / self.omega_sync_rad_s
-        b = k - 2.0 * torque_nm * z_th.real
+        b = k - 2.0 * sign * torque_nm * z_th.real
         root = math.sqrt(max(b * b - 4.0 * torque_nm**2 * self.breakdown_r_over_s_ohm**2, 0.0))
-        return (b + root) / (2.0 * torque_nm)
+        return sign * (b + root) / (2.0 * torque_nm)  # Eq. 6.36 of [1] solved for x, the root of larger magnitude
 
     def r_over_s_at_rotor_current(self, i_rotor_a: float) -> float:
         r"""The value of :math:`x = R'/s` at which the rotor-side rotor current is ``i_rotor_a``.
@@ -522,10 +532,7 @@ class WoundRotorMotor:
                 f"the braking torque asked ({quantity(torque_nm, 'N·m')}) is above the generating breakdown torque "
                 f"({quantity(t_max, 'N·m')}): no speed above synchronous gives it"
             )
-        k = 3.0 * abs(v_th) ** 2 / self.omega_sync_rad_s
-        b = k + 2.0 * torque_nm * z_th.real
-        root = math.sqrt(max(b * b - 4.0 * torque_nm**2 * self.breakdown_r_over_s_ohm**2, 0.0))
-        return -(b + root) / (2.0 * torque_nm)  # Eq. 6.36 of [1], the root of larger magnitude
+        return self._stable_r_over_s(v_th, z_th, torque_nm, -1.0)
 
 
 def geometric_steps(r_first: float, r_last: float, ratio: float, steps=None, limit_text: str = "") -> tuple[int, float]:
