@@ -66,9 +66,10 @@ from .dc_motor import effective_supply_v, torque_nm
 from .induction_motor import MAX_SPEED_PER_SYNC
 from .errors import DesignError, InputError, choose, quantity, require_non_negative, require_positive
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
+from .compiled import compiled
 from .notch_integrator import (  # the start's integrator and its Hermite helpers: one machinery
-    _GROW, _SAFETY, _SHRINK, _at, _integral, _load_and_slope, _root, _slope_zero, _square_integral, checked_rtol,
-    rosenbrock_step,
+    DYNAMIC_BRAKE, PLUG, checked_rtol, circuit_system, cubic_at, cubic_integral, cubic_root, cubic_square_integral,
+    derivatives, hermite_cubic, rosenbrock_step, step_factor, turning_point,
 )
 from .start_load import LoadTorque, load_torque
 
@@ -462,16 +463,8 @@ class _Trace:
     n_t_rpm_s: float
 
 
-def _scalar_flux(circuit: _Circuit):
-    """``i -> (kΦ(i), dkΦ/di)`` at one current, fast: the motor's flux for the integrator's many calls.
-
-    The motor's ``notch_flux`` (:class:`~notchwise.formulas.notch_integrator.FluxCurve`, the monotone piecewise
-    cubic of its magnetization curve, or its constant flux) through the one scalar evaluation the start's
-    integrator uses; currents are taken by magnitude and held within the curve.
-    """
-    flux = circuit.motor.notch_flux
-    evaluate, top = flux.k_phi_and_slope, flux.i_max_a
-    return lambda i: evaluate(min(abs(i), top))
+#: How the compiled stop loop ended: the speed reached ``n_end``, the time cap passed, or no step could be taken. [-]
+_REACHED, _TIMED_OUT, _FAILED = 0, 1, 2
 
 
 def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n_start: float, n_end: float,
@@ -479,83 +472,81 @@ def _integrate_stop(circuit: _Circuit, load: LoadTorque, l_h: float, j: float, n
     """Integrate the braking loop and the shaft from (0 A, n_start) until the speed falls to ``n_end``.
 
     The one place that integrates, with the start's machinery
-    (:mod:`notchwise.formulas.notch_integrator`): RODAS3 steps on plain floats
+    (:mod:`notchwise.formulas.notch_integrator`): RODAS3 steps
     (:func:`~notchwise.formulas.notch_integrator.rosenbrock_step`, L-stable for
     the loop's L/R against the mechanical time constant) with the exact
-    Jacobian, the motor's flux through the one scalar cubic evaluation, and
-    between steps the cubic Hermite interpolant, on which the speed reaching
+    Jacobian of the braking loop
+    (:func:`~notchwise.formulas.notch_integrator.derivatives` in a braking
+    mode: the motor's flux at the current's magnitude, held within its curve),
+    and between steps the cubic Hermite interpolant, on which the speed reaching
     ``n_end`` is located, the peaks of current and speed are found, and
     :math:`\\int i\\,dt`, :math:`\\int i^2 dt`, :math:`\\int n\\,dt` are
-    integrated exactly. Steps are bounded by :data:`MAX_EVALUATIONS`.
+    integrated exactly; compiled where numba is installed. Steps are bounded by
+    :data:`MAX_EVALUATIONS`.
     """
-    c1, r, v_loop, dynamic = NM_PER_V_A_PER_RPM, circuit.r_ohm, circuit.v_loop_v, circuit.dynamic
-    flux_slope = _scalar_flux(circuit)
-    speeds, torques = tuple(load.speed_rpm.tolist()), tuple(load.torque_nm.tolist())
-    constant_load = load.constant
-    t_const = torques[0]
-    inv_l, c_j = 1.0 / l_h, c1 / j
-
-    def derivatives(i, n):
-        """Slopes di/dt [A/s], dn/dt [rpm/s] and the Jacobian entries at (i, n)."""
-        k_phi, dflux = flux_slope(i)
-        di = (v_loop + k_phi * n - r * i) * inv_l
-        j11, j12 = (dflux * n - r) * inv_l, k_phi * inv_l
-        if dynamic and i <= 0.0 and di < 0.0:
-            di = j11 = j12 = 0.0  # the current does not reverse through the brushes
-        tl, dtl = (t_const, 0.0) if constant_load else _load_and_slope(speeds, torques, n)
-        return di, c_j * (-c1 * k_phi * i - tl), j11, j12, -c_j * c1 * (k_phi + dflux * i), -c_j * dtl
-
-    def slopes(i, n):
-        return derivatives(i, n)[:2]
-
+    breaks, rows = circuit.motor.notch_flux.current_pieces
+    system = circuit_system(breaks, rows, load.speed_rpm, load.torque_nm, circuit.v_loop_v, circuit.r_ohm, l_h, j,
+                            DYNAMIC_BRAKE if circuit.dynamic else PLUG, circuit.motor.notch_flux.i_max_a)
     i_floor = 1e-3 * max(abs(float(circuit.steady_current_a(n_start)[0])), 1.0)
-    n_floor = 1e-3 * n_start
+    h = min(t_cap, 0.5 * l_h / circuit.r_ohm * rtol ** (1.0 / 3.0))
+    code, *trace = _run_stop(system, n_start, n_end, t_cap, rtol, i_floor, 1e-3 * n_start, h, l_h / circuit.r_ohm,
+                             MAX_EVALUATIONS)
+    if code == _TIMED_OUT:
+        raise DesignError(
+            f"the speed did not fall to n_end ({quantity(n_end, 'rpm')}) within {quantity(t_cap, 's')}, "
+            f"{TIME_CAP_FACTOR:g} times the stop's estimate: the braking is as good as lost"
+        )
+    if code == _FAILED:
+        raise DesignError(
+            f"the stop could not be integrated (more than {MAX_EVALUATIONS} steps or a figure that is not finite, "
+            f"after {quantity(trace[0], 's')}): check inertia, inductance, load and speeds for values far outside a "
+            "real drive"
+        )
+    return _Trace(*trace)
+
+
+@compiled
+def _run_stop(system, n_start, n_end, t_cap, rtol, i_floor, n_floor, h, tau, max_evaluations):
+    """The step loop of :func:`_integrate_stop` (compiled): a code, then the fields of :class:`_Trace`."""
     i, n, t = 0.0, n_start, 0.0
-    fi, fn, *jac = derivatives(i, n)
-    h = min(t_cap, 0.5 * l_h / r * rtol ** (1.0 / 3.0))
+    fi, fn, j11, j12, j21, j22 = derivatives(system, i, n)
     i_peak, n_peak = 0.0, n_start
     charge = i2t = n_t = 0.0
-    for _ in range(MAX_EVALUATIONS):
-        i1, n1, ei, en = rosenbrock_step(i, n, fi, fn, jac, h, slopes)
+    for _ in range(max_evaluations):
+        i1, n1, ei, en = rosenbrock_step(system, i, n, fi, fn, j11, j12, j21, j22, h)
         err = math.sqrt(0.5 * ((ei / (rtol * (max(abs(i), abs(i1)) + i_floor))) ** 2
                                + (en / (rtol * (max(abs(n), abs(n1)) + n_floor))) ** 2))
         if not err <= 1.0:  # too large, or not a number
-            h *= max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0)) if math.isfinite(err) else _SHRINK
-            if h < 1e-14 * max(t, l_h / r):
+            h *= step_factor(err)
+            if h < 1e-14 * max(t, tau):
                 break
             continue
-        f1 = derivatives(i1, n1)
-        di0, di1, dn0, dn1 = h * fi, h * f1[0], h * fn, h * f1[1]
-        pi = (i, di0, 3.0 * (i1 - i) - 2.0 * di0 - di1, 2.0 * (i - i1) + di0 + di1)  # Hermite cubics in s
-        pn = (n, dn0, 3.0 * (n1 - n) - 2.0 * dn0 - dn1, 2.0 * (n - n1) + dn0 + dn1)
-        s_end = _root(lambda s: _at(pn, s) - n_end, 0.0, 1.0, n - n_end, n1 - n_end) if n1 <= n_end else 1.0
-        for cubic, f_start, f_stop, which in ((pi, fi, f1[0], 0), (pn, fn, f1[1], 1)):
-            s_top = _slope_zero(cubic) if f_start > 0.0 >= f_stop else None
-            if s_top is not None and s_top <= s_end:
-                if which == 0:
-                    i_peak = max(i_peak, _at(cubic, s_top))
-                else:
-                    n_peak = max(n_peak, _at(cubic, s_top))
-        charge += h * _integral(pi, s_end)
-        i2t += h * _square_integral(pi, s_end)
-        n_t += h * _integral(pn, s_end)
+        f1i, f1n, g11, g12, g21, g22 = derivatives(system, i1, n1)
+        pi = hermite_cubic(i, i1, h * fi, h * f1i)  # the step's cubics in s = (t - t0)/h
+        pn = hermite_cubic(n, n1, h * fn, h * f1n)
+        s_end = cubic_root(pn, n_end, 0.0, 1.0, n - n_end, n1 - n_end) if n1 <= n_end else 1.0
+        if fi > 0.0 >= f1i:
+            s_top = turning_point(pi)
+            if 0.0 < s_top <= s_end:
+                i_peak = max(i_peak, cubic_at(pi, s_top))
+        if fn > 0.0 >= f1n:
+            s_top = turning_point(pn)
+            if 0.0 < s_top <= s_end:
+                n_peak = max(n_peak, cubic_at(pn, s_top))
+        charge += h * cubic_integral(pi, s_end)
+        i2t += h * cubic_square_integral(pi, s_end)
+        n_t += h * cubic_integral(pn, s_end)
         if s_end < 1.0:
-            i_end = _at(pi, s_end)
-            return _Trace(t + s_end * h, i_end, max(i_peak, i_end), n_peak, charge, i2t, n_t)
+            i_end = cubic_at(pi, s_end)
+            return _REACHED, t + s_end * h, i_end, max(i_peak, i_end), n_peak, charge, i2t, n_t
         t += h
         if t >= t_cap:
-            raise DesignError(
-                f"the speed did not fall to n_end ({quantity(n_end, 'rpm')}) within {quantity(t_cap, 's')}, "
-                f"{TIME_CAP_FACTOR:g} times the stop's estimate: the braking is as good as lost"
-            )
+            return _TIMED_OUT, t, i1, i_peak, n_peak, charge, i2t, n_t
         i, n = i1, n1
-        fi, fn, *jac = f1
+        fi, fn, j11, j12, j21, j22 = f1i, f1n, g11, g12, g21, g22
         i_peak, n_peak = max(i_peak, i), max(n_peak, n)
-        h = min(h * (min(_GROW, max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0))) if err > 0.0 else _GROW), t_cap - t)
-    raise DesignError(
-        f"the stop could not be integrated (more than {MAX_EVALUATIONS} steps or a figure that is not finite, after "
-        f"{quantity(t, 's')}): check inertia, inductance, load and speeds for values far outside a real drive"
-    )
+        h = min(h * step_factor(err), t_cap - t)
+    return _FAILED, t, i, i_peak, n_peak, charge, i2t, n_t
 
 
 def simulate_stop(

@@ -229,7 +229,7 @@ def magnetization_curve(
 class _DCMachine:
     r"""What the three DC kinds share of the machine interface (:class:`notchwise.formulas.machines.Machine`).
 
-    Each kind provides ``k_phi(i_a)`` and ``relative_flux(i_a)``; the rest follows from
+    Each kind provides ``_k_phi_values(i_a)`` and ``relative_flux(i_a)``; the rest follows from
     :math:`E = k\Phi n`, :math:`T = \frac{60}{2\pi}k\Phi I` and :math:`V' = E + IR` [1]_.
     """
 
@@ -239,6 +239,13 @@ class _DCMachine:
     runs_away_unloaded: ClassVar[bool] = False
     #: The current is a state of the circuit: the start goes notch by notch through ``advance_notch``.
     quasi_steady: ClassVar[bool] = False
+
+    def k_phi(self, i_a):
+        """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
+        self.require_dynamics()
+        if isinstance(i_a, float) and i_a <= self.i_max_a:  # one value: the scalar cubic the integrator uses
+            return self.notch_flux.k_phi(i_a)
+        return self._k_phi_values(i_a)
 
     def torque_nm(self, i_a):
         """Developed torque at armature current ``i_a`` (no argument checks: see :func:`developed_torque_nm`). [N·m]"""
@@ -336,9 +343,8 @@ class ShuntMotor(_DCMachine):
         if self.k_phi_v_per_rpm is None:
             raise InputError("the shunt motor has no k_phi (back-EMF per rpm at the working field): it is needed for speed or torque")
 
-    def k_phi(self, i_a):
-        """Back-EMF per rpm at armature current ``i_a``: constant. [V/rpm]"""
-        self.require_dynamics()
+    def _k_phi_values(self, i_a):
+        """Back-EMF per rpm at armature currents ``i_a``: constant. [V/rpm]"""
         return np.full_like(np.asarray(i_a, dtype=float), self.k_phi_v_per_rpm)[()]
 
     def relative_flux(self, i_a):
@@ -379,9 +385,8 @@ class SeriesMotor(_DCMachine):
         """Refuse speed or torque without a curve and its speed."""
         _require_speed(self.curve, self.kind)
 
-    def k_phi(self, i_a):
-        """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
-        self.require_dynamics()
+    def _k_phi_values(self, i_a):
+        """Back-EMF per rpm at armature currents ``i_a``. [V/rpm]"""
         return self.curve.k_phi_at(i_a)
 
     def relative_flux(self, i_a):
@@ -442,9 +447,8 @@ class CompoundMotor(_DCMachine):
         """Total field ampere-turns per pole, :math:`F_{sh} + N_{se} I`. [A]"""
         return self.shunt_at + self.series_turns * np.asarray(i_a, dtype=float)
 
-    def k_phi(self, i_a):
-        """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
-        self.require_dynamics()
+    def _k_phi_values(self, i_a):
+        """Back-EMF per rpm at armature currents ``i_a``. [V/rpm]"""
         return self.curve.k_phi_at(self.field_at(i_a))
 
     def relative_flux(self, i_a):

@@ -141,6 +141,8 @@ def as_float(name: str, value, unit: str = "") -> float:
     ...
     notchwise.formulas.errors.InputTypeError: i_a ('300') is not a number in A
     """
+    if isinstance(value, float) and math.isfinite(value):  # the common case first (numpy's float64 is a float)
+        return float(value)
     if value is None or (isinstance(value, str) and not value.strip()):
         raise InputTypeError(f"{name} is empty; a number{_in(unit)} is needed")
     if isinstance(value, bool) or not isinstance(value, (Real, np.number)):

@@ -15,13 +15,18 @@ the four-stage, third-order, stiffly accurate and L-stable Rosenbrock method of
 Sandu et al. [2]_ (its embedded second-order solution gives the error
 estimate), in the form of Hairer and Wanner [3]_ (sec. IV.7, Eq. 7.4'), with
 the exact 2 x 2 Jacobian. The linear system of each stage, with the matrix
-:math:`I/(h\gamma) - J`, is solved by its closed-form inverse; everything in
-the step loop is a Python float (tiny numpy arrays cost ten times as much).
+:math:`I/(h\gamma) - J`, is solved by its closed-form inverse. The step loop,
+the right-hand side and the event location work on floats, tuples and the
+curve's and load's float arrays only, and are compiled to machine code where
+numba is installed (:mod:`notchwise.formulas.compiled`); the braking stop
+(:mod:`notchwise.formulas.braking`) integrates its loop with the same step,
+right-hand side and helpers (:func:`circuit_system` with a braking mode).
 
 The flux characteristic is a piecewise cubic, the shape-preserving
 interpolant of the magnetization curve (:class:`FluxCurve`, built once from the
 breakpoints and coefficients of ``scipy.interpolate.PchipInterpolator``), and
-is evaluated with its derivative by bisection and Horner's rule.
+is evaluated with its derivative by bisection and Horner's rule
+(:func:`piecewise_cubic`).
 
 Between accepted steps the solution is the cubic Hermite interpolant of the
 end states and slopes [3]_ (sec. II.6, dense output); events (the current
@@ -55,12 +60,12 @@ References
 from __future__ import annotations
 
 import math
-from bisect import bisect_right
 from dataclasses import dataclass, field
 
 import numpy as np
 from scipy.interpolate import PchipInterpolator
 
+from .compiled import compiled
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
 from .errors import InputError, as_float_array, quantity, require_count, require_non_negative, require_positive
 
@@ -73,18 +78,40 @@ __all__ = [
     "load_table",
     "NotchRun",
     "integrate_notch",
+    "integrate_notch_unchecked",
     "cubic_pieces",
     "cubic_evaluator",
+    "piecewise_cubic",
+    "load_and_slope",
+    "DRIVE",
+    "DYNAMIC_BRAKE",
+    "PLUG",
+    "circuit_system",
+    "derivatives",
     "rosenbrock_step",
+    "step_factor",
+    "hermite_cubic",
+    "cubic_at",
+    "cubic_root",
+    "turning_point",
+    "cubic_integral",
+    "cubic_square_integral",
     "checked_rtol",
     "STATUSES",
 ]
 
 #: Why an integration stopped: the normal ends, then the ends a caller must report.
 STATUSES = ("cut", "settled", "rest", "time", "step cap", "curve end")
+_CUT, _SETTLED, _REST, _TIME, _STEP_CAP, _CURVE_END = range(6)
+#: The compiled loop's code for a step size that fell below its floor (reported as "step cap"). [-]
+_TINY_STEP = 6
 _C1 = NM_PER_V_A_PER_RPM
 #: Three-point Gauss-Legendre nodes on [0, 1] and weights (Eq. 25.4.29 of [4]).
-_GAUSS = ((0.5 - math.sqrt(15.0) / 10.0, 5.0 / 18.0), (0.5, 8.0 / 18.0), (0.5 + math.sqrt(15.0) / 10.0, 5.0 / 18.0))
+_GAUSS_NODES = (0.5 - math.sqrt(15.0) / 10.0, 0.5, 0.5 + math.sqrt(15.0) / 10.0)
+_GAUSS_WEIGHTS = (5.0 / 18.0, 8.0 / 18.0, 5.0 / 18.0)
+#: The circuit a loop integrates (:func:`circuit_system`): a start drives the shaft; dynamic braking (the
+#: armature on its resistor, the current not reversing through the brushes) and plugging brake it. [-]
+DRIVE, DYNAMIC_BRAKE, PLUG = 0, 1, 2
 #: Step-size controller: safety factor and the bounds of one change (sec. IV.8 of [3]).
 _SAFETY, _GROW, _SHRINK = 0.9, 5.0, 0.2
 #: Least swing of the current the error is weighed against, as a fraction of the starting current (chosen by
@@ -122,10 +149,11 @@ class FluxCurve:
     coefficients: tuple
     offset_a: float = 0.0
     gain: float = 1.0
-    _evaluate: object = field(init=False, repr=False, compare=False)
+    _current_pieces: tuple = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
-        object.__setattr__(self, "_evaluate", _flux_evaluator(self.breaks, self.coefficients, self.offset_a, self.gain))
+        object.__setattr__(self, "_current_pieces",
+                           _in_armature_current(self.breaks, self.coefficients, self.offset_a, self.gain))
 
     @property
     def i_max_a(self) -> float:
@@ -134,14 +162,17 @@ class FluxCurve:
             return math.inf
         return (self.breaks[-1] - self.offset_a) / self.gain
 
+    @property
+    def current_pieces(self) -> tuple:
+        """Breaks [A] and rows ``(c3, c2, c1, c0)`` [V/rpm/A^k] of :math:`k\\Phi` in the armature current, as float arrays.
+
+        The form :func:`piecewise_cubic` and the compiled loops take (:func:`circuit_system`).
+        """
+        return self._current_pieces
+
     def k_phi(self, i_a: float) -> float:
         """Back-EMF per rpm at armature current ``i_a``. [V/rpm]"""
-        return self._evaluate(float(i_a))[0]
-
-    @property
-    def k_phi_and_slope(self):
-        """The function ``i [A] -> (kΦ [V/rpm], dkΦ/di [V/(rpm·A)])`` at one float current, for integrators."""
-        return self._evaluate
+        return piecewise_cubic(*self._current_pieces, float(i_a))[0]
 
 
 def flux_curve(excitation, emf_v, speed_rpm: float, offset_a: float = 0.0, gain: float = 1.0) -> FluxCurve:
@@ -216,11 +247,10 @@ def cubic_pieces(pchip):
 
 
 def cubic_evaluator(breaks, rows):
-    """A function of one float ``x`` giving the piecewise cubic and its slope there: the one fast scalar evaluation.
+    """A function of one float ``x`` giving the piecewise cubic and its slope there, by :func:`piecewise_cubic`.
 
-    Held at its first value (slope 0) at and below the first break; bisection for the interval (the last
-    continued above the last break) and Horner's rule; the magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`),
-    the integrator's flux and the braking stop all use it.
+    The magnetization curve's scalar values (:class:`~notchwise.formulas.dc_motor.MagnetizationCurve`) use it;
+    the integrators call :func:`piecewise_cubic` on the arrays directly.
 
     Parameters
     ----------
@@ -238,20 +268,45 @@ def cubic_evaluator(breaks, rows):
     -----
     .. math:: P'(x) = (3 c_3 u + 2 c_2) u + c_1
     """
-    last = len(rows) - 1
-    first, held = breaks[0], rows[0][3]
+    breaks_array = np.array(breaks, dtype=float)
+    rows_array = np.array(rows, dtype=float).reshape(-1, 4)
+    return lambda x: piecewise_cubic(breaks_array, rows_array, x)
 
-    def value_and_slope(x):
-        if x <= first:  # held at its first value below the first break
-            return held, 0.0
-        k = bisect_right(breaks, x) - 1
-        if k > last:
-            k = last
-        c3, c2, c1, c0 = rows[k]
-        u = x - breaks[k]
-        return ((c3 * u + c2) * u + c1) * u + c0, (3.0 * c3 * u + 2.0 * c2) * u + c1
 
-    return value_and_slope
+@compiled
+def piecewise_cubic(breaks, rows, x):
+    """A piecewise cubic and its slope at one float ``x``: the one scalar evaluation of every cubic curve.
+
+    Held at its first value (slope 0) at and below the first break; bisection for the interval (the last
+    continued above the last break) and Horner's rule. The magnetization curve's scalar values, the
+    integrators' flux and the braking stop all use it.
+
+    Parameters
+    ----------
+    breaks : numpy.ndarray
+        Breaks, strictly rising, float64. [x units]
+    rows : numpy.ndarray
+        Shape (m, 4): per interval ``(c3, c2, c1, c0)`` in ``u = x - breaks[k]``, highest power first. [-]
+    x : float
+        Where to evaluate. [x units]
+
+    Returns
+    -------
+    tuple of float
+        ``(P(x), P'(x))``. [-]
+
+    Notes
+    -----
+    .. math:: P(x) = ((c_3 u + c_2) u + c_1) u + c_0, \\quad P'(x) = (3 c_3 u + 2 c_2) u + c_1
+    """
+    if x <= breaks[0]:  # held at its first value below the first break
+        return rows[0, 3], 0.0
+    k = np.searchsorted(breaks, x, side="right") - 1
+    if k > rows.shape[0] - 1:
+        k = rows.shape[0] - 1
+    c3, c2, c1, c0 = rows[k, 0], rows[k, 1], rows[k, 2], rows[k, 3]
+    u = x - breaks[k]
+    return ((c3 * u + c2) * u + c1) * u + c0, (3.0 * c3 * u + 2.0 * c2) * u + c1
 
 
 def constant_flux(k_phi_v_per_rpm: float) -> FluxCurve:
@@ -303,18 +358,17 @@ def motor_flux(motor) -> FluxCurve:
     return _scaled(curve.pieces, curve.speed_rpm, getattr(motor, "shunt_at", 0.0), getattr(motor, "series_turns", 1.0))
 
 
-def _flux_evaluator(breaks, coefficients, offset_a, gain):
-    """A function of the armature current giving :math:`k\\Phi` [V/rpm] and its slope [V/(rpm·A)].
+def _in_armature_current(breaks, coefficients, offset_a, gain):
+    """Breaks and rows of :math:`k\\Phi` in the armature current, as float arrays, from those in the excitation.
 
-    The cubic of :func:`cubic_evaluator`, its pieces carried over once from the excitation
-    :math:`x = x_0 + g i` to the armature current (breaks :math:`(x_k - x_0)/g`, coefficients
-    :math:`c_m g^m`), so that each evaluation is one call; below zero excitation the flux is held.
+    The pieces are carried over once from the excitation :math:`x = x_0 + g i` to the armature current
+    (breaks :math:`(x_k - x_0)/g`, coefficients :math:`c_m g^m`), so that each evaluation is one call; below
+    zero excitation the flux is held. A constant flux (``gain`` 0) is one piece of zero slope from 0 A on.
     """
-    if gain == 0.0:  # constant flux
-        constant = (coefficients[0][3], 0.0)
-        return lambda i_a: constant
-    return cubic_evaluator(tuple((x - offset_a) / gain for x in breaks),
-                           tuple((c3 * gain**3, c2 * gain**2, c1 * gain, c0) for c3, c2, c1, c0 in coefficients))
+    if gain == 0.0:
+        return np.array([0.0, math.inf]), np.array([[0.0, 0.0, 0.0, coefficients[0][3]]])
+    return (np.array([(x - offset_a) / gain for x in breaks]),
+            np.array([(c3 * gain**3, c2 * gain**2, c1 * gain, c0) for c3, c2, c1, c0 in coefficients]))
 
 
 @dataclass(frozen=True)
@@ -323,19 +377,19 @@ class LoadTable:
 
     Attributes
     ----------
-    speed_rpm : tuple of float
-        Speeds, strictly rising. [rpm]
-    torque_nm : tuple of float
-        Torque at each speed, at or above zero. [N·m]
+    speed_rpm : numpy.ndarray
+        Speeds, strictly rising, float64. [rpm]
+    torque_nm : numpy.ndarray
+        Torque at each speed, float64. [N·m]
     """
 
-    speed_rpm: tuple
-    torque_nm: tuple
+    speed_rpm: np.ndarray
+    torque_nm: np.ndarray
+    constant: bool = field(init=False, repr=False, compare=False)
 
-    @property
-    def constant(self) -> bool:
-        """True when the torque does not depend on speed."""
-        return all(t == self.torque_nm[0] for t in self.torque_nm)
+    def __post_init__(self):
+        # True when the torque does not depend on speed: the load work is then integrated in closed form.
+        object.__setattr__(self, "constant", bool(np.all(self.torque_nm == self.torque_nm[0])))
 
 
 def load_table(speed_rpm, torque_nm) -> LoadTable:
@@ -363,15 +417,35 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
         raise InputError(f"load speed has {n.size} values but load torque has {t.size}")
     if np.any(np.diff(n) <= 0.0):
         raise InputError("load speeds must rise strictly")
-    return LoadTable(tuple(float(v) for v in n), tuple(float(v) for v in t))
+    return LoadTable(np.ascontiguousarray(n), np.ascontiguousarray(t))
 
 
-def _load_and_slope(speeds, torques, n_rpm: float):
-    """Load torque [N·m] and its slope [N·m/rpm] at ``n_rpm``, as numpy.interp holds the ends."""
-    k = bisect_right(speeds, n_rpm)
+@compiled
+def load_and_slope(speeds, torques, n_rpm):
+    """Load torque and its slope at one speed, linear between points and held beyond the ends (as numpy.interp).
+
+    Parameters
+    ----------
+    speeds : numpy.ndarray
+        Speeds of the table, strictly rising, float64. [rpm]
+    torques : numpy.ndarray
+        Load torque at each speed, float64. [N·m]
+    n_rpm : float
+        Speed. [rpm]
+
+    Returns
+    -------
+    tuple of float
+        ``(T_L, dT_L/dn)``. [N·m], [N·m/rpm]
+
+    Notes
+    -----
+    .. math:: T_L(n) = T_k + (T_{k+1} - T_k)\\frac{n - n_k}{n_{k+1} - n_k}
+    """
+    k = np.searchsorted(speeds, n_rpm, side="right")
     if k == 0:
         return torques[0], 0.0
-    if k == len(speeds):
+    if k == speeds.shape[0]:
         return torques[-1], 0.0
     n0, n1 = speeds[k - 1], speeds[k]
     slope = (torques[k] - torques[k - 1]) / (n1 - n0)
@@ -447,70 +521,98 @@ class NotchRun:
         return current, speed
 
 
-def _at(a, s):
-    return ((a[3] * s + a[2]) * s + a[1]) * s + a[0]
-
-
-def _slope(a, s):
-    return (3.0 * a[3] * s + 2.0 * a[2]) * s + a[1]
-
-
-def _root(f, lo, hi, f_lo, f_hi):
-    """A root of ``f`` in [lo, hi] where f(lo) and f(hi) differ in sign: the Illinois false position.
-
-    M. Dowell and P. Jarratt, "A modified regula falsi method for computing the root of an equation,"
-    *BIT*, vol. 11, pp. 168-174, 1971 (from memory).
-    """
-    side = 0
-    for _ in range(60):
-        s = (lo * f_hi - hi * f_lo) / (f_hi - f_lo)
-        value = f(s)
-        if value == 0.0 or hi - lo < 1e-14:
-            return s
-        if (value > 0.0) == (f_hi > 0.0):
-            hi, f_hi = s, value
-            if side == -1:
-                f_lo *= 0.5
-            side = -1
-        else:
-            lo, f_lo = s, value
-            if side == 1:
-                f_hi *= 0.5
-            side = 1
-    return s
-
-
-def _slope_zero(a):
-    """First s in (0, 1) where the Hermite cubic ``a`` turns from rising to falling; None if it does not."""
-    qa, qb, qc = 3.0 * a[3], 2.0 * a[2], a[1]  # its slope is qa s^2 + qb s + qc
-    if qa == 0.0:
-        return -qc / qb if qb < 0.0 and 0.0 < -qc / qb < 1.0 else None
-    disc = qb * qb - 4.0 * qa * qc
-    if disc < 0.0:
-        return None
-    q = -0.5 * (qb + math.copysign(math.sqrt(disc), qb))
-    roots = sorted(x for x in (q / qa, qc / q if q != 0.0 else math.inf) if 0.0 < x < 1.0)
-    for x in roots:
-        if 2.0 * qa * x + qb < 0.0:
-            return x
-    return None
-
-
-def rosenbrock_step(i, n, fi, fn, jacobian, h, slopes):
-    r"""One RODAS3 step [2]_ of a 2-state system on plain floats: the new state and the error estimate.
+def circuit_system(breaks, rows, speeds, torques, v_v, r_ohm, l_h, inertia_kgm2, mode, i_top_a):
+    r"""The loop and shaft one compiled integration works on, as one tuple for :func:`derivatives`.
 
     Parameters
     ----------
+    breaks, rows : numpy.ndarray
+        :math:`k\Phi` in the armature current (:attr:`FluxCurve.current_pieces`). [A], [V/rpm/A^k]
+    speeds, torques : numpy.ndarray
+        The load table (:class:`LoadTable`). [rpm], [N·m]
+    v_v : float
+        Source in the loop: the supply less the brush drop on a start, the plugging supply on a stop (0 for
+        dynamic braking). [V]
+    r_ohm : float
+        Whole loop resistance, above zero. [ohm]
+    l_h : float
+        Loop inductance, above zero. [H]
+    inertia_kgm2 : float
+        Inertia referred to the motor shaft, above zero. [kg·m²]
+    mode : int
+        :data:`DRIVE`, :data:`DYNAMIC_BRAKE` or :data:`PLUG`. [-]
+    i_top_a : float
+        Braking: the flux is taken at the current's magnitude, held at this top of the curve. [A]
+
+    Returns
+    -------
+    tuple
+        ``(breaks, rows, speeds, torques, v, r, 1/L, c/J, mode, i_top)``, :math:`c = 60/(2\pi)`. [-]
+
+    Notes
+    -----
+    .. math:: \frac{dn}{dt} = \frac{60}{2\pi}\,\frac{T - T_L}{J}
+    """
+    return breaks, rows, speeds, torques, v_v, r_ohm, 1.0 / l_h, _C1 / inertia_kgm2, mode, i_top_a
+
+
+@compiled
+def derivatives(system, i, n):
+    r"""Slopes of current and speed and the exact Jacobian of the loop and shaft of ``system``.
+
+    Parameters
+    ----------
+    system : tuple
+        From :func:`circuit_system`. [-]
+    i, n : float
+        Current and speed. [A], [rpm]
+
+    Returns
+    -------
+    tuple of float
+        ``(di/dt, dn/dt, j11, j12, j21, j22)``. [A/s], [rpm/s], [1/s], [A/(rpm·s)], [rpm/(A·s)], [1/s]
+
+    Notes
+    -----
+    A start (:data:`DRIVE`, [1]_):
+
+    .. math:: L\frac{di}{dt} = V' - R i - k\Phi(i)\,n, \quad J\frac{d\omega}{dt} = T(i) - T_L(n)
+
+    A braking stop drives the current with the motor's EMF (flux at :math:`|i|`), and the torque opposes
+    the motion; dynamic braking lets no current reverse through the brushes:
+
+    .. math:: L\frac{di}{dt} = V_{loop} + k\Phi(|i|)\,n - R i, \quad J\frac{d\omega}{dt} = -T(i) - T_L(n)
+    """
+    breaks, rows, speeds, torques, v, r, inv_l, c_j, mode, i_top = system
+    tl, dtl = load_and_slope(speeds, torques, n)
+    if mode == DRIVE:
+        phi, dphi = piecewise_cubic(breaks, rows, i)
+        return ((v - r * i - phi * n) * inv_l, c_j * (_C1 * phi * i - tl),  # Eqs. 7.37-7.40 of [1]
+                -(r + dphi * n) * inv_l, -phi * inv_l, c_j * _C1 * (phi + dphi * i), -c_j * dtl)
+    phi, dphi = piecewise_cubic(breaks, rows, min(abs(i), i_top))
+    di = (v + phi * n - r * i) * inv_l
+    j11, j12 = (dphi * n - r) * inv_l, phi * inv_l
+    if mode == DYNAMIC_BRAKE and i <= 0.0 and di < 0.0:
+        di = j11 = j12 = 0.0  # the current does not reverse through the brushes
+    return di, c_j * (-_C1 * phi * i - tl), j11, j12, -c_j * _C1 * (phi + dphi * i), -c_j * dtl
+
+
+@compiled
+def rosenbrock_step(system, i, n, fi, fn, j11, j12, j21, j22, h):
+    r"""One RODAS3 step [2]_ of the 2-state ``system`` on floats: the new state and the error estimate.
+
+    Parameters
+    ----------
+    system : tuple
+        From :func:`circuit_system`; its :func:`derivatives` give the stage slopes. [-]
     i, n : float
         The state at the step's start (current, speed). [A], [rpm]
     fi, fn : float
         Its slopes there. [A/s], [rpm/s]
-    jacobian : tuple of float
-        ``(j11, j12, j21, j22)``, the exact Jacobian there. [1/s, A/(rpm·s), rpm/(A·s), 1/s]
+    j11, j12, j21, j22 : float
+        The exact Jacobian there. [1/s], [A/(rpm·s)], [rpm/(A·s)], [1/s]
     h : float
         The step. [s]
-    slopes : callable
-        ``(i, n) -> (di/dt, dn/dt)``. [A/s], [rpm/s]
 
     Returns
     -------
@@ -527,7 +629,6 @@ def rosenbrock_step(i, n, fi, fn, jacobian, h, slopes):
     ----------
     See the module docstring (Sandu et al. [2]_; Hairer and Wanner [3]_, Eq. 7.4').
     """
-    j11, j12, j21, j22 = jacobian
     # Stage matrix I/(h gamma) - J and its closed-form inverse (Eq. 7.4' of [3]).
     g = 2.0 / h  # 1/(h gamma), gamma = 1/2
     a11, a12, a21, a22 = g - j11, -j12, -j21, g - j22
@@ -541,17 +642,222 @@ def rosenbrock_step(i, n, fi, fn, jacobian, h, slopes):
     k2i = b11 * ri + b12 * rn
     k2n = b21 * ri + b22 * rn
     ui, un = i + 2.0 * k1i, n + 2.0 * k1n
-    si, sn = slopes(ui, un)
-    ri, rn = si + inv_h * (k1i - k2i), sn + inv_h * (k1n - k2n)
+    stage = derivatives(system, ui, un)
+    ri, rn = stage[0] + inv_h * (k1i - k2i), stage[1] + inv_h * (k1n - k2n)
     k3i = b11 * ri + b12 * rn
     k3n = b21 * ri + b22 * rn
     ui, un = ui + k3i, un + k3n
-    si, sn = slopes(ui, un)
-    ri = si + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
-    rn = sn + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
+    stage = derivatives(system, ui, un)
+    ri = stage[0] + inv_h * (k1i - k2i - (8.0 / 3.0) * k3i)
+    rn = stage[1] + inv_h * (k1n - k2n - (8.0 / 3.0) * k3n)
     k4i = b11 * ri + b12 * rn
     k4n = b21 * ri + b22 * rn
     return ui + k4i, un + k4n, k4i, k4n  # y1 = y0 + 2 k1 + k3 + k4; the error estimate is k4 [2]
+
+
+@compiled
+def step_factor(err):
+    r"""Factor on the step size after a step of weighted error ``err`` (sec. IV.8 of [3]_, order 3).
+
+    Parameters
+    ----------
+    err : float
+        Weighted RMS of the error estimate; above 1 (or not finite) the step is rejected. [-]
+
+    Returns
+    -------
+    float
+        The factor, from 0.2 to 5. [-]
+
+    Notes
+    -----
+    .. math:: h_{new} = h \min\big(5, \max(0.2, 0.9\,\mathrm{err}^{-1/3})\big)
+    """
+    if not err <= 1.0:
+        return max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0)) if math.isfinite(err) else _SHRINK
+    if err == 0.0:
+        return _GROW
+    return min(_GROW, max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0)))
+
+
+@compiled
+def hermite_cubic(y0, y1, d0, d1):
+    r"""Power-basis coefficients, in :math:`s = (t - t_0)/h`, of the cubic Hermite interpolant of one step [3]_.
+
+    Parameters
+    ----------
+    y0, y1 : float
+        The values at the step's ends. [y units]
+    d0, d1 : float
+        The slopes there times the step, :math:`h f`. [y units]
+
+    Returns
+    -------
+    tuple of float
+        ``(a0, a1, a2, a3)``, lowest power first. [y units]
+
+    Notes
+    -----
+    .. math:: p(s) = y_0 + d_0 s + (3(y_1 - y_0) - 2 d_0 - d_1) s^2 + (2(y_0 - y_1) + d_0 + d_1) s^3
+    """
+    return y0, d0, 3.0 * (y1 - y0) - 2.0 * d0 - d1, 2.0 * (y0 - y1) + d0 + d1
+
+
+@compiled
+def cubic_at(a, s):
+    """The cubic ``a`` (lowest power first, as from :func:`hermite_cubic`) at ``s``. [y units]
+
+    Parameters
+    ----------
+    a : tuple of float
+        ``(a0, a1, a2, a3)``. [y units]
+    s : float
+        Where, in units of the step. [-]
+
+    Returns
+    -------
+    float
+        Its value. [y units]
+
+    Notes
+    -----
+    .. math:: p(s) = ((a_3 s + a_2) s + a_1) s + a_0
+    """
+    return ((a[3] * s + a[2]) * s + a[1]) * s + a[0]
+
+
+@compiled
+def _cubic_slope(a, s):
+    return (3.0 * a[3] * s + 2.0 * a[2]) * s + a[1]
+
+
+@compiled
+def cubic_root(a, target, lo, hi, f_lo, f_hi):
+    """Where the cubic ``a`` equals ``target`` in [lo, hi], ``a - target`` being ``f_lo`` and ``f_hi`` of opposite signs there.
+
+    The Illinois false position: M. Dowell and P. Jarratt, "A modified regula falsi method for computing
+    the root of an equation," *BIT*, vol. 11, pp. 168-174, 1971 (from memory).
+
+    Parameters
+    ----------
+    a : tuple of float
+        The cubic, lowest power first. [y units]
+    target : float
+        The level sought. [y units]
+    lo, hi : float
+        The bracket, in units of the step. [-]
+    f_lo, f_hi : float
+        ``a - target`` at ``lo`` and ``hi``. [y units]
+
+    Returns
+    -------
+    float
+        The crossing, in units of the step. [-]
+
+    Notes
+    -----
+    .. math:: s = \\frac{lo\\,f_{hi} - hi\\,f_{lo}}{f_{hi} - f_{lo}}
+    """
+    side = 0
+    s = lo
+    for _ in range(60):
+        s = (lo * f_hi - hi * f_lo) / (f_hi - f_lo)
+        value = cubic_at(a, s) - target
+        if value == 0.0 or hi - lo < 1e-14:
+            return s
+        if (value > 0.0) == (f_hi > 0.0):
+            hi, f_hi = s, value
+            if side == -1:
+                f_lo *= 0.5
+            side = -1
+        else:
+            lo, f_lo = s, value
+            if side == 1:
+                f_hi *= 0.5
+            side = 1
+    return s
+
+
+@compiled
+def turning_point(a):
+    """First s in (0, 1) where the cubic ``a`` turns from rising to falling; -1 if it does not.
+
+    Parameters
+    ----------
+    a : tuple of float
+        The cubic, lowest power first. [y units]
+
+    Returns
+    -------
+    float
+        The maximum's place in units of the step, or -1. [-]
+
+    Notes
+    -----
+    .. math:: p'(s) = 3 a_3 s^2 + 2 a_2 s + a_1 = 0, \\quad p''(s) < 0
+    """
+    qa, qb, qc = 3.0 * a[3], 2.0 * a[2], a[1]
+    if qa == 0.0:
+        return -qc / qb if qb < 0.0 and 0.0 < -qc / qb < 1.0 else -1.0
+    disc = qb * qb - 4.0 * qa * qc
+    if disc < 0.0:
+        return -1.0
+    q = -0.5 * (qb + math.copysign(math.sqrt(disc), qb))
+    first, second = q / qa, qc / q if q != 0.0 else math.inf
+    if second < first:
+        first, second = second, first
+    for x in (first, second):
+        if 0.0 < x < 1.0 and 2.0 * qa * x + qb < 0.0:
+            return x
+    return -1.0
+
+
+@compiled
+def cubic_integral(a, s):
+    """:math:`\\int_0^s p` of the cubic ``a``, in units of the step. [y units]
+
+    Parameters
+    ----------
+    a : tuple of float
+        The cubic, lowest power first. [y units]
+    s : float
+        Upper end, in units of the step. [-]
+
+    Returns
+    -------
+    float
+        The integral (times the step gives it in time). [y units]
+
+    Notes
+    -----
+    .. math:: \\int_0^s p = a_0 s + a_1 s^2/2 + a_2 s^3/3 + a_3 s^4/4
+    """
+    return s * (a[0] + s * (a[1] / 2.0 + s * (a[2] / 3.0 + s * a[3] / 4.0)))
+
+
+@compiled
+def cubic_square_integral(a, s):
+    """:math:`\\int_0^s p^2` of the cubic ``a``, exactly, in units of the step. [y units²]
+
+    Parameters
+    ----------
+    a : tuple of float
+        The cubic, lowest power first. [y units]
+    s : float
+        Upper end, in units of the step. [-]
+
+    Returns
+    -------
+    float
+        The integral of the square. [y units²]
+
+    Notes
+    -----
+    .. math:: \\int_0^s p^2 = \\sum_{j,k} a_j a_k s^{j+k+1}/(j+k+1)
+    """
+    a0, a1, a2, a3 = a
+    return s * (a0 * a0 + s * (a0 * a1 + s * ((a1 * a1 + 2.0 * a0 * a2) / 3.0 + s * (0.5 * (a0 * a3 + a1 * a2) + s * (
+        (a2 * a2 + 2.0 * a1 * a3) / 5.0 + s * (a2 * a3 / 3.0 + s * a3 * a3 / 7.0))))))
 
 
 def checked_rtol(rtol) -> float:
@@ -660,161 +966,209 @@ def integrate_notch(
     if not isinstance(load, LoadTable):
         raise InputError("load must be a LoadTable (load_table)")
 
-    speeds, torques = load.speed_rpm, load.torque_nm
-    constant_load = len(speeds) == 1 or load.constant
-    t_const = torques[0]
+    return integrate_notch_unchecked(flux, v, r, l_h, j, load, i, n, t_max, i_cut, n_settle, rtol, max_steps,
+                                     bool(keep_history))
+
+
+def integrate_notch_unchecked(flux, v_eff_v, r_ohm, l_h, inertia_kgm2, load, i0_a, n0_rpm, t_max_s, i_cut_a,
+                              n_settle_rpm, rtol, max_steps, keep_history) -> NotchRun:
+    r""":func:`integrate_notch` without its argument checks, for a caller that has made them (the start).
+
+    Parameters
+    ----------
+    flux : FluxCurve
+        Back-EMF per rpm against armature current. [V/rpm]
+    v_eff_v, r_ohm, l_h, inertia_kgm2 : float
+        Supply less brush drop, resistance, inductance and inertia, all above zero. [V], [ohm], [H], [kg·m²]
+    load : LoadTable
+        Load torque against speed. [N·m]
+    i0_a, n0_rpm : float
+        Current and speed at the start, at or above zero. [A], [rpm]
+    t_max_s : float
+        Longest duration, finite and above zero. [s]
+    i_cut_a, n_settle_rpm : float or None
+        Switching current and settling speed, or None. [A], [rpm]
+    rtol : float
+        Relative tolerance, as :func:`checked_rtol` allows. [-]
+    max_steps : int
+        Most accepted steps, at least 1. [-]
+    keep_history : bool
+        Keep the step ends for :meth:`NotchRun.state_at`. [-]
+
+    Returns
+    -------
+    NotchRun
+
+    Notes
+    -----
+    .. math:: y_1 = y_0 + 2 k_1 + k_3 + k_4
+    """
+    breaks, rows = flux.current_pieces
     i_max = flux.i_max_a
-    inv_l, c_j = 1.0 / l_h, _C1 / j
-    flux_and_slope = flux._evaluate
-    kphi_top = flux_and_slope(min(v / r, i_max))[0]
-    i_floor = 1e-3 * v / r  # absolute parts of the error scale: a thousandth of the standstill current
-    n_floor = 1e-3 * v / kphi_top if kphi_top > 0.0 else 1.0  # and of a speed below any running speed
+    system = circuit_system(breaks, rows, load.speed_rpm, load.torque_nm, v_eff_v, r_ohm, l_h, inertia_kgm2, DRIVE,
+                            math.inf)
+    kphi_top = piecewise_cubic(breaks, rows, min(v_eff_v / r_ohm, i_max))[0]
+    i_floor = 1e-3 * v_eff_v / r_ohm  # absolute parts of the error scale: a thousandth of the standstill current
+    n_floor = 1e-3 * v_eff_v / kphi_top if kphi_top > 0.0 else 1.0  # and of a speed below any running speed
+    (code, t, i, n, peak, t_peak, charge, i2t, work, steps, rejected, h, knots) = _run_notch(
+        system, i0_a, n0_rpm, t_max_s, math.nan if i_cut_a is None else i_cut_a,
+        math.nan if n_settle_rpm is None else n_settle_rpm, rtol, max_steps, keep_history, i_max, i_floor, n_floor,
+        l_h / r_ohm, load.constant)
+    message = ""
+    if code == _STEP_CAP:
+        message = (f"the integrator stopped after {max_steps} steps at {quantity(t, 's')} before the notch ended: "
+                   "raise max_steps or loosen rtol")
+    elif code == _TINY_STEP:
+        code, message = _STEP_CAP, f"the step size fell below {quantity(h, 's')} at {quantity(t, 's')}"
+    elif code == _CURVE_END:
+        message = (f"the current ({quantity(i, 'A')}) left the magnetization curve, which ends at "
+                   f"{quantity(i_max, 'A')}, at {quantity(t, 's')}: extend the curve")
+    return NotchRun(STATUSES[code], message, t, i, n, peak, t_peak, charge, i2t, work, steps, rejected, knots)
 
-    def derivatives(i, n):
-        """Slopes di/dt [A/s], dn/dt [rpm/s] and the Jacobian entries at (i, n)."""
-        phi, dphi = flux_and_slope(i)
-        if constant_load:
-            tl, dtl = t_const, 0.0
-        else:
-            tl, dtl = _load_and_slope(speeds, torques, n)
-        return ((v - r * i - phi * n) * inv_l, c_j * (_C1 * phi * i - tl),
-                -(r + dphi * n) * inv_l, -phi * inv_l, c_j * _C1 * (phi + dphi * i), -c_j * dtl)
 
-    def slopes(i, n):
-        phi = flux_and_slope(i)[0]
-        tl = t_const if constant_load else _load_and_slope(speeds, torques, n)[0]
-        return (v - r * i - phi * n) * inv_l, c_j * (_C1 * phi * i - tl)
+@compiled(allocates=True)
+def _kept(knots, count, t, i, n, fi, fn):
+    """``knots`` with the row (t, i, n, fi, fn) at ``count``, doubled in length when full."""
+    if count == knots.shape[0]:
+        grown = np.empty((2 * count, 5))
+        grown[:count] = knots
+        knots = grown
+    knots[count, 0], knots[count, 1], knots[count, 2], knots[count, 3], knots[count, 4] = t, i, n, fi, fn
+    return knots
 
-    fi, fn, j11, j12, j21, j22 = derivatives(i, n)
-    tau = l_h / r
+
+@compiled(allocates=True)
+def _run_notch(system, i, n, t_max, i_cut, n_settle, rtol, max_steps, keep_history, i_max, i_floor, n_floor, tau,
+               constant_load):
+    """The step loop of :func:`integrate_notch` (compiled): ``nan`` for no ``i_cut`` or ``n_settle``.
+
+    Returns the status code (an index of :data:`STATUSES`, or ``_TINY_STEP``), the end time, current and
+    speed, the peak and its time, the three integrals, the accepted and rejected steps, the last step size
+    and the knots kept.
+    """
+    has_cut, has_settle = i_cut == i_cut, n_settle == n_settle
+    speeds, torques = system[2], system[3]
+    fi, fn, j11, j12, j21, j22 = derivatives(system, i, n)
     h = min(t_max, 0.5 * tau * rtol ** (1.0 / 3.0))
     t = 0.0
     peak, t_peak = i, 0.0
     charge = i2t = work = 0.0
-    rose = i_cut is not None and i > i_cut
+    rose = has_cut and i > i_cut
     # The current's error is weighed against its swing on the phase, not its size: the instant it falls back
     # to the cut-out value moves by the error over the slope, and the slope scales with the swing.
     i_start = i
     swing = _SWING_FLOOR * i
-    knots = [(0.0, i, n, fi, fn)] if keep_history else None
+    knots = np.empty((64 if keep_history else 0, 5))
+    count = 0
+    if keep_history:
+        knots = _kept(knots, 0, 0.0, i, n, fi, fn)
+        count = 1
     steps = rejected = 0
-    status, message = "", ""
-    work_per_rpm_s = t_const * RAD_S_PER_RPM
+    work_per_rpm_s = torques[0] * RAD_S_PER_RPM
+    status = -1
     while True:
         if steps >= max_steps:
-            status = "step cap"
-            message = (f"the integrator stopped after {max_steps} steps at {quantity(t, 's')} before the notch ended: "
-                       "raise max_steps or loosen rtol")
+            status = _STEP_CAP
             break
         last = t + h >= t_max
         if last:
             h = t_max - t
-        i1, n1, k4i, k4n = rosenbrock_step(i, n, fi, fn, (j11, j12, j21, j22), h, slopes)
+        i1, n1, k4i, k4n = rosenbrock_step(system, i, n, fi, fn, j11, j12, j21, j22, h)
         ei = k4i / (rtol * (swing + i_floor))
         en = k4n / (rtol * ((n if n > n1 else n1) + n_floor))
         err = math.sqrt(0.5 * (ei * ei + en * en))
-        if err > 1.0 or err != err:
+        if not err <= 1.0:  # too large, or not a number
             rejected += 1
-            h *= max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0)) if err == err else _SHRINK
+            h *= step_factor(err)
             if h < 1e-14 * max(t, tau):
-                status, message = "step cap", f"the step size fell below {quantity(h, 's')} at {quantity(t, 's')}"
+                status = _TINY_STEP
                 break
             continue
         steps += 1
-        f1 = derivatives(i1, n1)
-        di0, di1, dn0, dn1 = h * fi, h * f1[0], h * fn, h * f1[1]
-        pi = (i, di0, 3.0 * (i1 - i) - 2.0 * di0 - di1, 2.0 * (i - i1) + di0 + di1)  # Hermite cubics in s = (t - t0)/h
-        pn = (n, dn0, 3.0 * (n1 - n) - 2.0 * dn0 - dn1, 2.0 * (n - n1) + dn0 + dn1)
+        f1i, f1n, g11, g12, g21, g22 = derivatives(system, i1, n1)
+        pi = hermite_cubic(i, i1, h * fi, h * f1i)  # the step's cubics in s = (t - t0)/h
+        pn = hermite_cubic(n, n1, h * fn, h * f1n)
         # Events on the Hermite cubic of this step: the first one ends the phase.
-        s_end, status = 1.0, "time" if last else ""
-        if i_cut is not None:
+        s_end = 1.0
+        status = _TIME if last else -1
+        if has_cut:
             if rose and i1 <= i_cut:
-                s_end, status = _root(lambda s: _at(pi, s) - i_cut, 0.0, 1.0, i - i_cut, i1 - i_cut), "cut"
+                s_end, status = cubic_root(pi, i_cut, 0.0, 1.0, i - i_cut, i1 - i_cut), _CUT
             elif not rose:
                 # Did the current rise past the cut-out value within this step (at its end or at a peak inside)?
-                s_up = _slope_zero(pi) if fi > 0.0 >= f1[0] else None
-                i_up = i1 if s_up is None else _at(pi, s_up)
+                s_up = turning_point(pi) if fi > 0.0 >= f1i else -1.0
+                i_up = i1 if s_up < 0.0 else cubic_at(pi, s_up)
                 if i_up > i_cut:
                     rose = True
                     if i1 <= i_cut:  # and fell back to it before the step's end
-                        s_end, status = _root(lambda s: _at(pi, s) - i_cut, s_up, 1.0, i_up - i_cut, i1 - i_cut), "cut"
+                        s_end, status = cubic_root(pi, i_cut, s_up, 1.0, i_up - i_cut, i1 - i_cut), _CUT
         if n1 <= 0.0 and (n > 0.0 or fn < 0.0):
-            s_rest = _root(lambda s: _at(pn, s), 0.0, 1.0, n, n1) if n > 0.0 else 0.0
+            s_rest = cubic_root(pn, 0.0, 0.0, 1.0, n, n1) if n > 0.0 else 0.0
             if s_rest <= s_end:
-                s_end, status = s_rest, "rest"
-        if n_settle is not None and n1 >= n_settle:
+                s_end, status = s_rest, _REST
+        if has_settle and n1 >= n_settle:
             s_ok = _settle_point(pi, pn, n_settle, rtol * (swing + i_floor))
-            if s_ok is not None and s_ok <= s_end:
-                s_end, status = s_ok, "settled"
+            if 0.0 <= s_ok <= s_end:
+                s_end, status = s_ok, _SETTLED
         # A peak inside the step, on its cubic; not where the step spans many electrical time constants: there
         # the current closes exponentially on its quasi-steady value and the cubic overshoots the ends.
-        s_peak = _slope_zero(pi) if fi > 0.0 >= f1[0] and -h * j11 < 1.0 else None
-        if s_peak is not None and s_peak <= s_end:
-            value = _at(pi, s_peak)
+        s_peak = turning_point(pi) if fi > 0.0 >= f1i and -h * j11 < 1.0 else -1.0
+        if 0.0 < s_peak <= s_end:
+            value = cubic_at(pi, s_peak)
             if value > peak:
                 peak, t_peak = value, t + s_peak * h
-        charge += h * _integral(pi, s_end)
-        i2t += h * _square_integral(pi, s_end)
+        charge += h * cubic_integral(pi, s_end)
+        i2t += h * cubic_square_integral(pi, s_end)
         if constant_load:
-            work += work_per_rpm_s * h * _integral(pn, s_end)
+            work += work_per_rpm_s * h * cubic_integral(pn, s_end)
         else:
-            work += RAD_S_PER_RPM * h * s_end * sum(
-                w * _load_and_slope(speeds, torques, _at(pn, s_end * x))[0] * _at(pn, s_end * x) for x, w in _GAUSS)
+            quadrature = 0.0
+            for k in range(3):
+                speed = cubic_at(pn, s_end * _GAUSS_NODES[k])
+                quadrature += _GAUSS_WEIGHTS[k] * load_and_slope(speeds, torques, speed)[0] * speed
+            work += RAD_S_PER_RPM * h * s_end * quadrature
         if s_end < 1.0:
             h_end = s_end * h
-            i1, n1 = _at(pi, s_end), _at(pn, s_end)
-            if status == "rest":
+            i1, n1 = cubic_at(pi, s_end), cubic_at(pn, s_end)
+            if status == _REST:
                 n1 = 0.0
-            if status == "cut":
+            if status == _CUT:
                 i1 = i_cut
-            f1 = (_slope(pi, s_end) / h, _slope(pn, s_end) / h) + f1[2:]
+            f1i, f1n = _cubic_slope(pi, s_end) / h, _cubic_slope(pn, s_end) / h
         else:
             h_end = h
         t += h_end
         i, n = i1, n1
         if abs(i - i_start) > swing:
             swing = abs(i - i_start)
-        fi, fn, j11, j12, j21, j22 = f1
+        fi, fn, j11, j12, j21, j22 = f1i, f1n, g11, g12, g21, g22
         if i > peak:
             peak, t_peak = i, t
         if keep_history:
-            knots.append((t, i, n, fi, fn))
-        if status:
+            knots = _kept(knots, count, t, i, n, fi, fn)
+            count += 1
+        if status >= 0:
             break
         if i > i_max * (1.0 + 1e-12):
-            status = "curve end"
-            message = (f"the current ({quantity(i, 'A')}) left the magnetization curve, which ends at "
-                       f"{quantity(i_max, 'A')}, at {quantity(t, 's')}: extend the curve")
+            status = _CURVE_END
             break
-        h *= min(_GROW, max(_SHRINK, _SAFETY * err ** (-1.0 / 3.0))) if err > 0.0 else _GROW
-    return NotchRun(status, message, t, i, n, peak, t_peak, charge, i2t, work, steps, rejected,
-                    np.array(knots if keep_history else np.empty((0, 5)), dtype=float).reshape(-1, 5))
+        h *= step_factor(err)
+    return status, t, i, n, peak, t_peak, charge, i2t, work, steps, rejected, h, knots[:count].copy()
 
 
+@compiled
 def _settle_point(pi, pn, n_target, flat):
-    """First s in [0, 1] with the speed at or above the target and the current not rising; None if none.
+    """First s in [0, 1] with the speed at or above the target and the current not rising; -1 if none.
 
     A rise of the current over the step below ``flat`` (its error tolerance [A]) is noise, not a rise: with a
     tiny inductance the slope of a current at its steady value has either sign.
     """
-    n_end = _at(pn, 1.0)
-    if n_end < n_target or _slope(pi, 1.0) > flat:
-        return None
+    n_end = cubic_at(pn, 1.0)
+    if n_end < n_target or _cubic_slope(pi, 1.0) > flat:
+        return -1.0
     n_start = pn[0]
-    s_speed = 0.0 if n_start >= n_target else _root(lambda s: _at(pn, s) - n_target, 0.0, 1.0, n_start - n_target, n_end - n_target)
-    if _slope(pi, s_speed) <= flat:
+    s_speed = 0.0 if n_start >= n_target else cubic_root(pn, n_target, 0.0, 1.0, n_start - n_target, n_end - n_target)
+    if _cubic_slope(pi, s_speed) <= flat:
         return s_speed
-    s_peak = _slope_zero(pi)
-    return 1.0 if s_peak is None else max(s_speed, s_peak)
-
-
-def _integral(a, s):
-    """:math:`\\int_0^s p` of the cubic ``a``, in units of the step. [-]"""
-    return s * (a[0] + s * (a[1] / 2.0 + s * (a[2] / 3.0 + s * a[3] / 4.0)))
-
-
-def _square_integral(a, s):
-    """:math:`\\int_0^s p^2` of the cubic ``a``, exactly. [-]"""
-    a0, a1, a2, a3 = a
-    return s * (a0 * a0 + s * (a0 * a1 + s * ((a1 * a1 + 2.0 * a0 * a2) / 3.0 + s * (0.5 * (a0 * a3 + a1 * a2) + s * (
-        (a2 * a2 + 2.0 * a1 * a3) / 5.0 + s * (a2 * a3 / 3.0 + s * a3 * a3 / 7.0))))))
+    s_peak = turning_point(pi)
+    return 1.0 if s_peak < 0.0 else max(s_speed, s_peak)

@@ -33,7 +33,7 @@ from scipy.integrate import solve_ivp
 
 from .errors import DesignError, quantity
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
-from .notch_integrator import integrate_notch
+from .notch_integrator import integrate_notch_unchecked
 from .start_notch import MAX_STEPS_PER_NOTCH, SETTLED_FRACTION
 
 __all__ = ["FAST_RTOL", "GENERAL_RTOL", "integrated_running_phase"]
@@ -91,12 +91,16 @@ def integrated_running_phase(notch, machine, circuit, i_cut, t_left, t_cap, fina
 
 
 def _fast_phase(notch, flux, circuit, i_cut, t_left, t_cap, final_speed):
-    """The phase by :func:`~notchwise.formulas.notch_integrator.integrate_notch`, its statuses mapped."""
-    run = integrate_notch(
-        flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, circuit.load_table, notch.i,
-        max(notch.n, 0.0), t_max_s=t_left if np.isfinite(t_left) else t_cap, i_cut_a=i_cut,
-        n_settle_rpm=None if final_speed is None else SETTLED_FRACTION * final_speed,
-        rtol=FAST_RTOL if circuit.rtol is None else circuit.rtol, max_steps=MAX_STEPS_PER_NOTCH,
+    """The phase by :func:`~notchwise.formulas.notch_integrator.integrate_notch`, its statuses mapped.
+
+    The start has checked every figure of the circuit (:func:`~notchwise.formulas.start_sim.simulate_start`), so
+    the integrator is called without checking them again.
+    """
+    run = integrate_notch_unchecked(
+        flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, circuit.load_table, float(notch.i),
+        max(float(notch.n), 0.0), t_left if np.isfinite(t_left) else t_cap, i_cut,
+        None if final_speed is None else SETTLED_FRACTION * final_speed,
+        FAST_RTOL if circuit.rtol is None else circuit.rtol, MAX_STEPS_PER_NOTCH, True,
     )
     if run.status == "step cap":
         raise notch.incomplete("step bound", f"was stopped by the step bound: {run.message} (check the inertia and "

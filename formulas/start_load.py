@@ -23,6 +23,7 @@ from dataclasses import dataclass
 import numpy as np
 
 from .errors import InputError, as_float_array, quantity, shown
+from .notch_integrator import load_and_slope
 
 __all__ = ["LoadTorque", "load_torque"]
 
@@ -57,6 +58,8 @@ class LoadTorque:
 
     def at(self, n_rpm):
         """Load torque at speed ``n_rpm``. [N·m]"""
+        if isinstance(n_rpm, float):  # one value: the integrators' scalar interpolation, the same law
+            return load_and_slope(self.speed_rpm, self.torque_nm, n_rpm)[0]
         return np.interp(n_rpm, self.speed_rpm, self.torque_nm)
 
     @property

@@ -94,7 +94,7 @@ from .errors import InputError, as_float_array, choose, quantity, require_count,
 from .grading import checked_sections, notch_resistances_ohm
 from .machines import Machine, checked_machine
 from .rotor_start import simulate_rotor_start
-from .notch_integrator import load_table
+from .notch_integrator import LoadTable, checked_rtol
 from .start_load import LoadTorque, load_torque
 from .start_notch import (
     MAX_STEPS_PER_NOTCH, SETTLED_FRACTION, TIME_CAP_FACTOR, NotchCircuit, NotchRecord, StartIncomplete,
@@ -322,9 +322,9 @@ def simulate_start(
         always integrates with the general solver (Radau: an independent
         second method, for checks). [-]
     rtol : float, optional
-        Relative tolerance of the integrator; by default 2e-5 for the fast
-        integrator (peaks, dwells and energies within 0.05 %) and 1e-7 for
-        the general solver. [-]
+        Relative tolerance of the integrator, from 1e-12 to 1e-2; by default
+        2e-5 for the fast integrator (peaks, dwells and energies within
+        0.05 %) and 1e-7 for the general solver. [-]
 
     Returns
     -------
@@ -379,7 +379,7 @@ def simulate_start(
         return simulate_rotor_start(motor.with_supply(v_eff, j), sections, load, i_cut, dwells if i_cut is None else None)
     l_h = require_positive("l_circuit", l_circuit_h, "H")
     method = choose("method", method, ("auto", "integrate"))
-    rtol = None if rtol is None else require_positive("rtol", rtol)
+    rtol = None if rtol is None else checked_rtol(rtol)
 
     r_motor = motor.r_ohm
     r_notch = notch_resistances_ohm(r_motor, sections)
@@ -411,7 +411,7 @@ def simulate_start(
     t_mech = motor.mechanical_time_constant_s(r_notch[0], j, i_final if i_cut is None else i_cut)  # notch 1
     t_cap = TIME_CAP_FACTOR * (t_mech + l_h / r_motor)
 
-    table = load_table(load.speed_rpm, load.torque_nm)  # once per start, for the fast integrator
+    table = LoadTable(load.speed_rpm, load.torque_nm)  # once per start, for the fast integrator (load checked above)
     notches = []
     t, i, n = 0.0, 0.0, 0.0
     for k, r in enumerate(r_notch):

@@ -300,13 +300,14 @@ def test_a_signed_load_keeps_its_sign():
 
 
 def test_the_integrators_fast_flux_is_the_curves_own():
-    # The integrator evaluates the magnetization curve's cubic by Horner's rule; it must equal the curve's
-    # own interpolant (scipy's PchipInterpolator in dc_motor) and give its slope.
-    from notchwise.formulas.braking import _circuit, _scalar_flux
+    # The integrators (the stop's and the start's) evaluate the magnetization curve's cubic by Horner's rule on
+    # the motor's notch_flux pieces; it must equal the curve's own interpolant (scipy's PchipInterpolator in
+    # dc_motor, reached through the array path) and give its slope.
+    from notchwise.formulas.notch_integrator import piecewise_cubic
 
-    flux_slope = _scalar_flux(_circuit(SERIES, True, 0.0, 0.5))
+    pieces = SERIES.notch_flux.current_pieces
     currents = np.linspace(0.0, CURVE.max_excitation, 997)
-    fast = np.array([flux_slope(i) for i in currents])
+    fast = np.array([piecewise_cubic(*pieces, float(i)) for i in currents])
     assert np.allclose(fast[:, 0], SERIES.k_phi(currents), rtol=1e-13, atol=1e-15)
     h = 1e-5
     inner = currents[1:-1]

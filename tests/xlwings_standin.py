@@ -83,8 +83,13 @@ def real_xlwings(addin_modules=("notchwise.addin.cells", "notchwise.addin.udfs")
         excel = xlwings.engines.engines_by_name.pop("excel", None)
         if excel in xlwings.engines.engines:
             xlwings.engines.engines.remove(excel)
+        first_imported = {name: module for name, module in sys.modules.items() if name not in saved_modules}
         sys.modules.clear()
         sys.modules.update(saved_modules)
+        # What was first imported within the block stays, but for the stand-ins and what was built on them:
+        # numba loads parts of itself lazily and registers them once per process, so they cannot be imported twice.
+        sys.modules.update({name: module for name, module in first_imported.items()
+                            if name not in WINDOWS_MODULES and not name.startswith(("xlwings", "notchwise.addin"))})
 
 
 def call_like_excel(conversion, func, raw_args):
