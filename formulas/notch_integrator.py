@@ -513,7 +513,8 @@ class NotchRun:
             raise InputError("this run kept no history: integrate with keep_history=True")
         k = np.clip(np.searchsorted(knots[:, 0], t, side="right") - 1, 0, knots.shape[0] - 2)
         t0, h = knots[k, 0], knots[k + 1, 0] - knots[k, 0]
-        s = (t - t0) / h
+        # A step cut at its very start by an event (rest at its first instant) leaves two knots at one time.
+        s = np.divide(t - t0, h, out=np.zeros(np.shape(t)), where=h > 0.0)
         h00, h10, h01, h11 = 2 * s**3 - 3 * s**2 + 1, s**3 - 2 * s**2 + s, -2 * s**3 + 3 * s**2, s**3 - s**2
         lo, hi = knots[k], knots[k + 1]
         current = h00 * lo[..., 1] + h10 * h * lo[..., 3] + h01 * hi[..., 1] + h11 * h * hi[..., 3]
