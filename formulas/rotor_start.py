@@ -54,11 +54,8 @@ whose derivative is the integrand's negative,
 
 kept within a bracket by bisection; a step smaller than :math:`10^{-7}` is
 the last and is taken on the rates of time and energy at the point before
-(what it leaves is of the order of its square). A load table's equilibrium
-slip is bracketed on a grid of slips with the table's corners among them, the
-bracket scanned again on finer grids and the root taken by the secant across
-the last. After the last cut the motor runs on its own
-resistance; the start counts as finished when the speed reaches
+(what it leaves is of the order of its square). After the last cut the
+motor runs on its own resistance; the start counts as finished when the speed reaches
 :data:`SETTLED_FRACTION` of the final speed, or at the last cut if it is
 already there.
 
@@ -87,6 +84,7 @@ from typing import ClassVar
 
 import numpy as np
 from scipy.interpolate import PchipInterpolator
+from scipy.optimize import brentq
 
 from .errors import InputError, as_float_array, quantity, require_positive
 from .grading import notch_resistances_ohm
@@ -101,11 +99,8 @@ QUADRATURE_POINTS = 48
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_POINTS)
 #: Gauss-Legendre panels per step on which a history inverts t(s). [-]
 HISTORY_PANELS = 64
-#: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start
-#: (then of each bracket in turn).
+#: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start.
 _SCAN = np.linspace(1.0, 0.0, 513)
-#: Scans of the bracket before the secant takes the equilibrium slip. [-]
-_SCAN_LEVELS = 3
 #: The nearest a step's end comes to its equilibrium in :math:`u`, :math:`s - s_e = 10^{-12}(s_a - s_e)`. [-]
 _U_NEAR = math.log(1e-12)
 #: Newton's method on a dwell stops when the time it reaches is within this fraction of the dwell. [-]
@@ -229,45 +224,32 @@ class RotorStart:
 class _Step:
     """One step's resistance against the load: its equilibrium slip and its time and energy integrals in :math:`u`."""
 
-    def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float):
+    def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float, corners: np.ndarray):
+        """``corners``: the slips of the load table's speeds, falling; none for a constant load. [-]"""
         self.motor, self.load, self.r, self.s_a = motor, load, r_referred, s_start
-        self.constant_load = load.constant
+        self.constant_load = corners.size == 0
         self.net_start_nm = float(self.net_nm(s_start))
-        corners = motor.slip(load.speed_rpm)
         # A step that cannot start has nothing to integrate (simulate_rotor_start refuses it by name).
-        self.s_eq = self._equilibrium_slip(corners) if self.net_start_nm > 0.0 else s_start
+        self.s_eq = self._equilibrium_slip() if self.net_start_nm > 0.0 else s_start
         self.width = s_start - self.s_eq
-        # The values of u where the integrand has a kink, rising: a load table's corners within the step.
-        inside = corners[(corners > self.s_eq) & (corners < s_start)] if not self.constant_load else corners[:0]
-        self.corners_u = self.u_at(inside[::-1])
+        # The values of u where the integrand has a kink, rising: the load table's corners within the step.
+        self.corners_u = self.u_at(corners[(corners > self.s_eq) & (corners < s_start)][::-1])
 
     def net_nm(self, s):
         """Accelerating torque at slip ``s``. [N·m]"""
         return self.motor.torque_at_slip_nm(s, self.r) - self.load.at(self.motor.speed_at_slip_rpm(s))
 
-    def _equilibrium_slip(self, corners: np.ndarray) -> float:
-        """The first slip below the step's start at which the motor torque meets the load. [-]
-
-        A load table's (its speeds as slips in ``corners``): bracketed on :data:`_SCAN` with the corners added
-        (so that no bracket holds a kink), the bracket scanned again on the same fractions of it, :data:`_SCAN_LEVELS` scans in all, and
-        the root taken by the secant across the last bracket, at most :math:`512^{-3}` of the step's start wide.
-        """
+    def _equilibrium_slip(self) -> float:
+        """The first slip below the step's start at which the motor torque meets the load. [-]"""
         if self.constant_load:
             t_load = float(self.load.torque_nm[0])
             if t_load == 0.0:
                 return 0.0
             return self.r / self.motor.r_over_s_at_torque(t_load)  # T(R'/s) = T_L on the stable side
-        s = np.sort(np.concatenate((self.s_a * _SCAN, corners[(corners > 0.0) & (corners < self.s_a)])))[::-1]
-        net_high = self.net_start_nm
-        for _ in range(_SCAN_LEVELS):
-            net = self.net_nm(s[1:])  # at s = 0 the motor gives no torque, so some entry is at or below zero
-            meets = int(np.argmax(net <= 0.0))
-            if net[meets] == 0.0:
-                return float(s[meets + 1])
-            high, low, net_low = s[meets], s[meets + 1], net[meets]
-            net_high = net[meets - 1] if meets else net_high
-            s = low + (high - low) * _SCAN
-        return float(low - (high - low) * net_low / (net_high - net_low))  # the secant: net(high) > 0 > net(low)
+        s = self.s_a * _SCAN
+        net = self.net_nm(s[1:])  # at s = 0 the motor gives no torque, so some entry is at or below zero
+        meets = int(np.argmax(net <= 0.0))
+        return brentq(self.net_nm, s[meets + 1], s[meets], xtol=1e-14, rtol=1e-14) if net[meets] < 0.0 else float(s[meets + 1])
 
     def u_at(self, s):
         """The variable of integration at slip ``s``, :math:`u = \\ln((s - s_e)/(s_a - s_e))` (module docstring). [-]"""
@@ -426,8 +408,9 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     t_start, dwell, s_cut, e_rotor = (np.empty(count) for _ in range(4))
     s_a, t = 1.0, 0.0
     steps = []
+    corners = motor.slip(torque_load.speed_rpm) if not torque_load.constant else np.empty(0)
     for k in range(count + 1):
-        step = _Step(motor, torque_load, float(r_ref[k]), s_a)
+        step = _Step(motor, torque_load, float(r_ref[k]), s_a, corners)
         net = step.net_start_nm
         if net <= 0.0:
             speed = float(motor.speed_at_slip_rpm(s_a))
