@@ -97,6 +97,7 @@ __all__ = ["RotorStart", "simulate_rotor_start", "QUADRATURE_POINTS"]
 #: Gauss-Legendre points per step. [-]
 QUADRATURE_POINTS = 48
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_POINTS)
+_NODES_FROM_0 = 1.0 + _NODES  # the nodes on [0, 2], so that a panel's start plus its half-width times these are its nodes
 #: Gauss-Legendre panels per step on which a history inverts t(s). [-]
 HISTORY_PANELS = 64
 #: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start.
@@ -266,11 +267,12 @@ class _Step:
         """
         inside = self.corners_u[self.corners_u > u_end]
         if count == 1:
-            ends = np.concatenate(((u_end,), inside, (0.0,)))
+            ends = np.empty(inside.size + 2)
+            ends[0], ends[1:-1], ends[-1] = u_end, inside, 0.0
         else:
             ends = np.union1d(np.linspace(u_end, 0.0, count + 1), inside)
         half = 0.5 * (ends[1:] - ends[:-1])[:, None]
-        return ends, ends[:-1, None] + half * (1.0 + _NODES), half * _WEIGHTS  # 25.4.29 of [3] on each panel
+        return ends, ends[:-1, None] + half * _NODES_FROM_0, half * _WEIGHTS  # 25.4.29 of [3] on each panel
 
     def _rates(self, u):
         """Slip [-], motor torque [N·m] and the time's integrand in u, :math:`-dt/du` [s], at the values ``u`` (module docstring)."""
