@@ -230,8 +230,7 @@ class _Step:
         self.motor, self.load, self.r, self.s_a = motor, load, r_referred, s_start
         self.constant_load = corners.size == 0
         self.net_start_nm = float(self.net_nm(s_start))
-        # A step that cannot start has nothing to integrate (simulate_rotor_start refuses it by name).
-        self.s_eq = self._equilibrium_slip() if self.net_start_nm > 0.0 else s_start
+        self.s_eq = self._equilibrium_slip()
         self.width = s_start - self.s_eq
         # The values of u where the integrand has a kink, rising: the load table's corners within the step.
         self.corners_u = self.u_at(corners[(corners > self.s_eq) & (corners < s_start)][::-1])
@@ -247,6 +246,8 @@ class _Step:
             if t_load == 0.0:
                 return 0.0
             return self.r / self.motor.r_over_s_at_torque(t_load)  # T(R'/s) = T_L on the stable side
+        if self.net_start_nm <= 0.0:
+            return self.s_a  # a step that cannot start: simulate_rotor_start refuses it by name
         s = self.s_a * _SCAN
         net = self.net_nm(s[1:])  # at s = 0 the motor gives no torque, so some entry is at or below zero
         meets = int(np.argmax(net <= 0.0))
