@@ -233,7 +233,7 @@ class _Step:
         self.s_eq = self._equilibrium_slip()
         self.width = s_start - self.s_eq
         # The values of u where the integrand has a kink, rising: the load table's corners within the step.
-        self.corners_u = self.u_at(corners[(corners > self.s_eq) & (corners < s_start)][::-1])
+        self.corners_u = self.u_at(corners[(corners > self.s_eq) & (corners < s_start)][::-1]) if corners.size else corners
 
     def net_nm(self, s):
         """Accelerating torque at slip ``s``. [N·m]"""
@@ -266,7 +266,7 @@ class _Step:
 
         The load table's corners are among the ends: the integrand has a kink there.
         """
-        inside = self.corners_u[self.corners_u > u_end]
+        inside = self.corners_u[self.corners_u > u_end] if self.corners_u.size else self.corners_u
         if count == 1:
             ends = np.empty(inside.size + 2)
             ends[0], ends[1:-1], ends[-1] = u_end, inside, 0.0
@@ -288,7 +288,9 @@ class _Step:
         Also their rates there, :math:`-dt/du` [s] and :math:`-dE/du` [J]: the integrands at ``u_end``.
         """
         _, u, weights = self._panels(u_end, 1)
-        s, torque, time_rate = self._rates(np.append(u.ravel(), u_end))
+        nodes = np.empty(u.size + 1)
+        nodes[:-1], nodes[-1] = u.ravel(), u_end
+        s, torque, time_rate = self._rates(nodes)
         energy_rate = self.motor.omega_sync_rad_s * time_rate * s * torque  # 3 I2'^2 R' = s T ws, Eq. 6.26 of [2]
         weights = weights.ravel()
         return float(weights @ time_rate[:-1]), float(weights @ energy_rate[:-1]), float(time_rate[-1]), float(energy_rate[-1])
