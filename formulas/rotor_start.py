@@ -43,9 +43,19 @@ Switching. Current-limit: each step is cut out when the rotor current (rotor
 side) has fallen to ``i_cut_a``; the current is a function of :math:`R'/s`
 alone, so the cut-out slip is :math:`R_k'/x_c` with :math:`x_c` in closed form.
 A step whose current starts at or below it is cut at once. Definite-time:
-each step lasts its dwell, and the slip at its end is found by Brent's method
-on the time integral. After the last cut the motor runs on its own
-resistance; the start counts as finished when the speed reaches
+each step lasts its dwell, and the value of :math:`u` at its end is found by
+Newton's method ([3]_, 3.9.5, from memory) on the time to reach :math:`u`,
+whose derivative is the integrand's negative,
+
+.. math::
+
+    t(u) = \int_u^0 \frac{J\,\omega_s\,(s - s_e)}{T(s) - T_L(s)}\,du', \qquad
+    \frac{dt}{du} = -\frac{J\,\omega_s\,(s - s_e)}{T(s) - T_L(s)},
+
+kept within a bracket by bisection; a step smaller than :math:`10^{-7}` is
+the last and is taken on the rates of time and energy at the point before
+(what it leaves is of the order of its square). After the last cut the
+motor runs on its own resistance; the start counts as finished when the speed reaches
 :data:`SETTLED_FRACTION` of the final speed, or at the last cut if it is
 already there.
 
@@ -87,10 +97,19 @@ __all__ = ["RotorStart", "simulate_rotor_start", "QUADRATURE_POINTS"]
 #: Gauss-Legendre points per step. [-]
 QUADRATURE_POINTS = 48
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(QUADRATURE_POINTS)
+_NODES_FROM_0 = 1.0 + _NODES  # the nodes on [0, 2], so that a panel's start plus its half-width times these are its nodes
 #: Gauss-Legendre panels per step on which a history inverts t(s). [-]
 HISTORY_PANELS = 64
 #: Slips on which a load table's first meeting with the motor torque is bracketed, as fractions of the step's start.
 _SCAN = np.linspace(1.0, 0.0, 513)
+#: The nearest a step's end comes to its equilibrium in :math:`u`, :math:`s - s_e = 10^{-12}(s_a - s_e)`. [-]
+_U_NEAR = math.log(1e-12)
+#: Newton's method on a dwell stops when the time it reaches is within this fraction of the dwell. [-]
+_DWELL_RTOL = 1e-12
+#: A Newton step in u this small is the last one, taken without a new quadrature (it leaves about its square). [-]
+_NEWTON_FINISH = 1e-7
+#: A bound on the iterations on one dwell (bisection alone needs about 45). [-]
+_MAX_ITERATIONS = 100
 
 
 @dataclass(frozen=True)
@@ -204,12 +223,17 @@ class RotorStart:
 
 
 class _Step:
-    """One step's resistance against the load: its equilibrium slip and its time and energy integrals."""
+    """One step's resistance against the load: its equilibrium slip and its time and energy integrals in :math:`u`."""
 
-    def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float):
+    def __init__(self, motor: WoundRotorMotor, load: LoadTorque, r_referred: float, s_start: float, corners: np.ndarray):
+        """``corners``: the slips of the load table's speeds, falling; none for a constant load. [-]"""
         self.motor, self.load, self.r, self.s_a = motor, load, r_referred, s_start
-        self.constant_load = load.constant
+        self.constant_load = corners.size == 0
+        self.net_start_nm = float(self.net_nm(s_start))
         self.s_eq = self._equilibrium_slip()
+        self.width = s_start - self.s_eq
+        # The values of u where the integrand has a kink, rising: the load table's corners within the step.
+        self.corners_u = self.u_at(corners[(corners > self.s_eq) & (corners < s_start)][::-1]) if corners.size else corners
 
     def net_nm(self, s):
         """Accelerating torque at slip ``s``. [N·m]"""
@@ -222,55 +246,97 @@ class _Step:
             if t_load == 0.0:
                 return 0.0
             return self.r / self.motor.r_over_s_at_torque(t_load)  # T(R'/s) = T_L on the stable side
+        if self.net_start_nm <= 0.0:
+            return self.s_a  # a step that cannot start: simulate_rotor_start refuses it by name
         s = self.s_a * _SCAN
-        meets = np.nonzero(self.net_nm(s[1:]) <= 0.0)[0][0] + 1
-        return brentq(self.net_nm, s[meets], s[meets - 1], xtol=1e-14, rtol=1e-14) if self.net_nm(s[meets]) < 0.0 else float(s[meets])
+        net = self.net_nm(s[1:])  # at s = 0 the motor gives no torque, so some entry is at or below zero
+        meets = int(np.argmax(net <= 0.0))
+        return brentq(self.net_nm, s[meets + 1], s[meets], xtol=1e-14, rtol=1e-14) if net[meets] < 0.0 else float(s[meets + 1])
+
+    def u_at(self, s):
+        """The variable of integration at slip ``s``, :math:`u = \\ln((s - s_e)/(s_a - s_e))` (module docstring). [-]"""
+        return np.log((s - self.s_eq) / self.width)
+
+    def slip_at_u(self, u):
+        """Slip at ``u``, :math:`s = s_e + (s_a - s_e)e^u`. [-]"""
+        return self.s_eq + self.width * np.exp(u)
+
+    def _panels(self, u_end: float, count: int) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """Ends, Gauss-Legendre nodes and weights of ``count`` equal panels from ``u_end`` to 0. [-]
+
+        The load table's corners are among the ends: the integrand has a kink there.
+        """
+        inside = self.corners_u[self.corners_u > u_end] if self.corners_u.size else self.corners_u
+        if count == 1:
+            ends = np.empty(inside.size + 2)
+            ends[0], ends[1:-1], ends[-1] = u_end, inside, 0.0
+        else:
+            ends = np.union1d(np.linspace(u_end, 0.0, count + 1), inside)
+        half = 0.5 * (ends[1:] - ends[:-1])[:, None]
+        return ends, ends[:-1, None] + half * _NODES_FROM_0, half * _WEIGHTS  # 25.4.29 of [3] on each panel
+
+    def _rates(self, u):
+        """Slip [-], motor torque [N·m] and the time's integrand in u, :math:`-dt/du` [s], at the values ``u`` (module docstring)."""
+        s = self.slip_at_u(u)
+        torque = self.motor.torque_at_slip_nm(s, self.r)
+        net = torque - self.load.at(self.motor.speed_at_slip_rpm(s))
+        return s, torque, self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / net  # -dt/du = J ws (s - s_e)/(T - T_L)
+
+    def _integrate(self, u_end: float) -> tuple[float, float, float, float]:
+        """Time [s] and whole-rotor energy [J] from the step's start to ``u_end``.
+
+        Also their rates there, :math:`-dt/du` [s] and :math:`-dE/du` [J]: the integrands at ``u_end``.
+        """
+        _, u, weights = self._panels(u_end, 1)
+        nodes = np.empty(u.size + 1)
+        nodes[:-1], nodes[-1] = u.ravel(), u_end
+        s, torque, time_rate = self._rates(nodes)
+        energy_rate = self.motor.omega_sync_rad_s * time_rate * s * torque  # 3 I2'^2 R' = s T ws, Eq. 6.26 of [2]
+        weights = weights.ravel()
+        return float(weights @ time_rate[:-1]), float(weights @ energy_rate[:-1]), float(time_rate[-1]), float(energy_rate[-1])
 
     def integrals(self, s_end: float) -> tuple[float, float]:
         """Time [s] and whole-rotor energy [J] from the step's start to slip ``s_end`` (module docstring)."""
-        width = self.s_a - self.s_eq
-        # One Gauss-Legendre panel between each pair of the load table's corners, where the integrand has a kink.
-        ends = [s_end, self.s_a]
-        if not self.constant_load:
-            corners = self.motor.slip(self.load.speed_rpm)
-            ends = np.sort(np.concatenate((ends, corners[(corners > s_end) & (corners < self.s_a)])))
-        bounds = np.log((np.asarray(ends) - self.s_eq) / width)
-        half = 0.5 * (bounds[1:] - bounds[:-1])[:, None]
-        u = (bounds[:-1, None] + half * (1.0 + _NODES)).ravel()
-        weights = (half * _WEIGHTS).ravel()
-        s = self.s_eq + width * np.exp(u)
-        torque = self.motor.torque_at_slip_nm(s, self.r)
-        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
-        return float(weights @ dt_du), self.motor.omega_sync_rad_s * float(weights @ (dt_du * s * torque))
+        return self._integrate(float(self.u_at(s_end)))[:2]
 
     def slip_at(self, elapsed_s, s_end: float):
         """Slips at the times ``elapsed_s`` from the step's start, up to the step's end at ``s_end`` (:meth:`RotorStart.sampled`). [-]"""
         if s_end >= self.s_a:
             return np.full(np.shape(elapsed_s), self.s_a)
-        width = self.s_a - self.s_eq
-        ends = np.linspace(math.log((s_end - self.s_eq) / width), 0.0, HISTORY_PANELS + 1)
-        if not self.constant_load:
-            corners = self.motor.slip(self.load.speed_rpm)
-            inside = corners[(corners > s_end) & (corners < self.s_a)]
-            ends = np.union1d(ends, np.log((inside - self.s_eq) / width))
-        half = 0.5 * np.diff(ends)[:, None]
-        u = ends[:-1, None] + half * (1.0 + _NODES[None, :])
-        s = self.s_eq + width * np.exp(u)
-        torque = self.motor.torque_at_slip_nm(s, self.r)
-        dt_du = self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * (s - self.s_eq) / (torque - self.load.at(self.motor.speed_at_slip_rpm(s)))
-        panel_t = np.sum(half * _WEIGHTS[None, :] * dt_du, axis=1)
+        ends, u, weights = self._panels(float(self.u_at(s_end)), HISTORY_PANELS)
+        panel_t = np.sum(weights * self._rates(u)[2], axis=1)
         elapsed_at_ends = np.concatenate((np.cumsum(panel_t[::-1])[::-1], [0.0]))  # t(u) = integral from u to 0
-        u_of_t = PchipInterpolator(elapsed_at_ends[::-1], ends[::-1])
-        return self.s_eq + width * np.exp(u_of_t(np.clip(elapsed_s, 0.0, elapsed_at_ends[0])))
+        u_of_t = PchipInterpolator(elapsed_at_ends[::-1], ends[::-1])  # [4]
+        return self.slip_at_u(u_of_t(np.clip(elapsed_s, 0.0, elapsed_at_ends[0])))
 
-    def slip_after(self, dwell: float) -> float:
-        """Slip reached after ``dwell`` seconds on this step (Brent's method on the time integral). [-]"""
+    def end_after(self, dwell: float) -> tuple[float, float, float]:
+        """Slip [-] reached after ``dwell`` seconds on this step, and the time [s] and whole-rotor energy [J] to it.
+
+        Newton's method in :math:`u` on :math:`t(u) = ` ``dwell``, whose derivative is the integrand's
+        negative (module docstring), kept within a bracket by bisection.
+        """
         if dwell == 0.0:
-            return self.s_a
-        near = self.s_eq + (self.s_a - self.s_eq) * 1e-12
-        if self.integrals(near)[0] <= dwell:
-            return near  # settled on this step within the quadrature's reach
-        return brentq(lambda s: self.integrals(s)[0] - dwell, near, self.s_a, xtol=1e-14, rtol=1e-13)
+            return self.s_a, 0.0, 0.0
+        low, high, low_seen = _U_NEAR, 0.0, False  # t(low) > dwell >= t(high) once low is seen
+        # The tangent at the start, where t = 0 and -dt/du = J ws (s_a - s_e)/(T - T_L).
+        u = max(-dwell * self.net_start_nm / (self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * self.width), _U_NEAR)
+        for _ in range(_MAX_ITERATIONS):
+            time, energy, time_rate, energy_rate = self._integrate(u)
+            if abs(time - dwell) <= _DWELL_RTOL * dwell or (time <= dwell and u == _U_NEAR):
+                break  # at the dwell, or settled on this step within the quadrature's reach
+            if time > dwell:
+                low, low_seen = u, True
+            else:
+                high = u
+            step = (time - dwell) / time_rate  # -f/f' with f = t(u) - dwell, f' = -time_rate: Newton's method, 3.9.5 of [3]
+            if low < u + step < high and abs(step) <= _NEWTON_FINISH:
+                # Newton's last step, taken on the rates at u: what it leaves is of the order of its square.
+                return float(self.slip_at_u(u + step)), dwell, energy - energy_rate * step
+            following = u + step if low < u + step < high else 0.5 * (low + high) if low_seen else _U_NEAR
+            if following == u:
+                break  # no further step in floating point
+            u = following
+        return float(self.slip_at_u(u)), time, energy
 
 
 def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=None, dwell_s=None) -> RotorStart:
@@ -347,9 +413,10 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
     t_start, dwell, s_cut, e_rotor = (np.empty(count) for _ in range(4))
     s_a, t = 1.0, 0.0
     steps = []
+    corners = motor.slip(torque_load.speed_rpm) if not torque_load.constant else np.empty(0)
     for k in range(count + 1):
-        step = _Step(motor, torque_load, float(r_ref[k]), s_a)
-        net = float(step.net_nm(s_a))
+        step = _Step(motor, torque_load, float(r_ref[k]), s_a, corners)
+        net = step.net_start_nm
         if net <= 0.0:
             speed = float(motor.speed_at_slip_rpm(s_a))
             where = "at standstill: the torque" if k == 0 else f"after the cut at {quantity(speed, 'rpm')}: the torque"
@@ -369,9 +436,9 @@ def simulate_rotor_start(motor: WoundRotorMotor, sections_ohm, load, i_cut_a=Non
                     f"step {k + 1} stalls: the torque meets the load at {quantity(float(motor.speed_at_slip_rpm(step.s_eq)), 'rpm')} "
                     f"before the rotor current falls to i_cut ({quantity(i_cut_a, 'A')}): raise i_cut or lighten the load"
                 )
+            dwell[k], e_rotor[k] = step.integrals(s_b) if s_b < s_a else (0.0, 0.0)
         else:
-            s_b = step.slip_after(float(dwells[k]))
-        dwell[k], e_rotor[k] = step.integrals(s_b) if s_b < s_a else (0.0, 0.0)
+            s_b, dwell[k], e_rotor[k] = step.end_after(float(dwells[k]))
         t_start[k], s_cut[k] = t, s_b
         t, s_a = t + dwell[k], s_b
     run = steps[-1]

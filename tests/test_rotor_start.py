@@ -63,6 +63,18 @@ class TestAgainstSolveIvp:
         np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-7)
         np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-6)
 
+    @pytest.mark.parametrize("dwells", [[1.2, 0.0, 0.05, 0.4, 0.3], [1e-3, 0.7, 0.6, 0.5, 0.6]], ids=["a step skipped", "a short first step"])
+    def test_definite_time_start_on_a_rising_load_at_tight_tolerance(self, dwells):
+        """Newton's method on the time integral lands each dwell's end where solve_ivp (DOP853, rtol 1e-12, a
+        second method) ends it, on a load table whose corners fall inside steps: speeds within 1e-9, energies
+        within 5e-9 (the reference's own error is near 1e-10)."""
+        rising = [[0.0, 150.0], [250.0, 400.0], [600.0, 1300.0], [900.0, 2600.0]]
+        result = simulate_rotor_start(MOTOR, SECTIONS, rising, dwell_s=dwells)
+        _, n_end, energy = reference(SECTIONS, rising, dwells=dwells)
+        np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-12)
+        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-9)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=5e-9)
+
 
 class TestEnergyLaw:
     def test_no_load_rotor_energy_is_half_j_ws2_times_slip_squares(self):
@@ -127,6 +139,9 @@ class TestMessages:
             simulate_rotor_start(MOTOR, SECTIONS, 7000.0, i_cut_a=I_CUT)
         with pytest.raises(DesignError, match="step 1 stalls: the torque meets the load"):
             simulate_rotor_start(MOTOR, SECTIONS, 3000.0, i_cut_a=200.0)
+        for switching in (dict(i_cut_a=I_CUT), dict(dwell_s=[1.0] * 5)):  # a load table above the standstill torque
+            with pytest.raises(DesignError, match=r"step 1 stalls at standstill: the torque \(6000 N·m\) is not above the load \(7000 N·m\)"):
+                simulate_rotor_start(MOTOR, SECTIONS, [[0.0, 7000.0], [1000.0, 8000.0]], **switching)
 
     def test_bad_load_and_sections(self):
         with pytest.raises(InputError, match="must not be negative"):
