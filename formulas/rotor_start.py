@@ -322,8 +322,14 @@ class _Step:
         u = max(-dwell * self.net_start_nm / (self.motor.inertia_kgm2 * self.motor.omega_sync_rad_s * self.width), _U_NEAR)
         for _ in range(_MAX_ITERATIONS):
             time, energy, time_rate, energy_rate = self._integrate(u)
-            if abs(time - dwell) <= _DWELL_RTOL * dwell or (time <= dwell and u == _U_NEAR):
-                break  # at the dwell, or settled on this step within the quadrature's reach
+            if abs(time - dwell) <= _DWELL_RTOL * dwell:
+                break
+            if time <= dwell and u == _U_NEAR:
+                # Settled on this step before the timer runs out: the rotor runs on at s_e, its circuit
+                # dissipating s P_ag = s T ws (Eq. 6.26 of [2]) for the rest of the dwell.
+                slip, torque, _ = self._rates(np.array([u]))
+                power_w = self.motor.omega_sync_rad_s * float(slip[0] * torque[0])
+                return float(slip[0]), dwell, energy + power_w * (dwell - time)
             if time > dwell:
                 low, low_seen = u, True
             else:

@@ -76,6 +76,18 @@ class TestAgainstSolveIvp:
         np.testing.assert_allclose(result.energy_notch_j, energy, rtol=5e-9)
 
 
+    def test_a_dwell_longer_than_the_step_needs_is_held_to_its_end(self):
+        """A timer longer than the motor needs to settle on a step still holds the step its whole dwell: the rotor
+        runs on at the step's steady slip, its resistance dissipating all the while, and the next step starts
+        at the sum of the dwells (solve_ivp, DOP853, a second method)."""
+        dwells = [60.0, 0.5, 0.3, 0.2, 0.15]  # the first step settles within about 24 s
+        result = simulate_rotor_start(MOTOR, SECTIONS, 1000.0, dwell_s=dwells)
+        _, n_end, energy = reference(SECTIONS, 1000.0, dwells=dwells)
+        np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-12)
+        np.testing.assert_allclose(result.t_start_s, np.concatenate(([0.0], np.cumsum(dwells)[:-1])), rtol=1e-12)
+        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-9)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-7)
+
 class TestEnergyLaw:
     def test_no_load_rotor_energy_is_half_j_ws2_times_slip_squares(self):
         """On no load the whole rotor circuit dissipates (1/2) J ws^2 (s1^2 - s2^2) whatever the resistance
