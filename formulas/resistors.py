@@ -395,9 +395,7 @@ def cold_hot_start(
     """
     checked_machine(motor)
     sections = checked_sections(sections_20c_ohm)
-    masses = as_float_array("mass", mass_kg, "kg")
-    if masses.size not in (1, sections.size):
-        raise InputError(f"mass has {masses.size} entries; give one for all sections or one per section ({sections.size})")
+    masses = _section_masses(mass_kg, sections.size)
     ambient = as_float("ambient", ambient_c, "°C")
     hot = None if hot_c is None else as_float("hot", hot_c, "°C")
     if hot is not None and hot < ambient:  # checked before any simulation runs
@@ -464,6 +462,14 @@ class CycleDuty:
     verdict: tuple
 
 
+def _section_masses(mass_kg, sections: int) -> np.ndarray:
+    """The grid masses [kg]: one for all sections or one per section, checked before anything is computed."""
+    masses = as_float_array("mass", mass_kg, "kg")
+    if masses.size not in (1, sections):
+        raise InputError(f"mass has {masses.size} entries; give one for all sections or one per section ({sections})")
+    return masses
+
+
 def cycle_duty(r_section_ohm, i2t_start_a2s, i2t_stop_a2s: float, brake_from: int, starts_per_hour: float,
                stops_per_hour: float, start_time_s: float, stop_time_s: float, mass_kg, alloy) -> CycleDuty:
     r"""Energy, r.m.s. current, mean power and adiabatic rise of each section over a cycle of starts and stops.
@@ -511,9 +517,10 @@ def cycle_duty(r_section_ohm, i2t_start_a2s, i2t_stop_a2s: float, brake_from: in
         raise DesignError(
             f"{z_a:g} starts of {quantity(t_a, 's')} and {z_b:g} stops of {quantity(t_b, 's')} per hour do not fit in an hour"
         )
+    masses = _section_masses(mass_kg, r.size)
     stop_i2t = np.zeros(r.size)
     stop_i2t[first - 1] = require_non_negative("i2t of the stop", i2t_stop_a2s, "A²·s")  # in circuit from notch b on
     start, stop = section_duty(r, i2t_start_a2s, z_a, t_a), section_duty(r, stop_i2t, z_b, t_b)
-    rise = adiabatic_rise_k(start.energy_j + stop.energy_j, mass_kg, alloy)
+    rise = adiabatic_rise_k(start.energy_j + stop.energy_j, masses, alloy)
     return CycleDuty(start.energy_j, stop.energy_j, np.hypot(start.i_rms_a, stop.i_rms_a), start.power_w + stop.power_w,
                      rise, rise_verdict(rise))

@@ -146,6 +146,8 @@ def test_cycle_duty_against_the_definitions():
     ({"i2t_stop_a2s": -1.0}, "must not be negative"),
     ({"stops_per_hour": 2000.0}, "do not fit in an hour"),
     ({"mass_kg": -1.0}, "mass"),
+    # A mass column whose length is neither 1 nor the number of sections (found by the hostile-input test).
+    ({"mass_kg": [1.0, 2.0]}, "mass has 2 entries; give one for all sections or one per section (3)"),
 ])
 def test_cycle_duty_bad_inputs(change, words):
     from notchwise.formulas.resistors import cycle_duty
