@@ -207,7 +207,7 @@ def _rows(value) -> list:
         return []
     if not isinstance(value, (list, tuple)):
         return [[value]]
-    return [_row(row) for row in value]
+    return [row if isinstance(row, (list, tuple)) else [row] for row in value]  # _row, inline: one call per range
 
 
 def width(value) -> int:
