@@ -152,11 +152,11 @@ def at_once(name: str, value, unit: str, compute, never: str = ""):
     single = not isinstance(value, (list, tuple))
     values = np.array([number(name, value, unit)]) if single else column(name, value, unit)
     results = np.asarray(compute(values), dtype=float).ravel()
-    cells = results.tolist()
+    rows = results.reshape(-1, 1).tolist()
     for k in np.flatnonzero(~np.isfinite(results)).tolist():  # words only where a result is not a number
-        r = cells[k]
-        cells[k] = never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
-    return cells[0] if single else [[c] for c in cells]
+        r = rows[k][0]
+        rows[k][0] = never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
+    return rows[0][0] if single else rows
 
 
 def _is_blank(value) -> bool:
