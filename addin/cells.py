@@ -152,11 +152,11 @@ def at_once(name: str, value, unit: str, compute, never: str = ""):
     single = not isinstance(value, (list, tuple))
     values = np.array([number(name, value, unit)]) if single else column(name, value, unit)
     results = np.asarray(compute(values), dtype=float).ravel()
-    cells = [
-        r if math.isfinite(r) else never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
-        for k, r in enumerate(results.tolist())
-    ]
-    return cells[0] if single else [[c] for c in cells]
+    rows = results.reshape(-1, 1).tolist()
+    for k in np.flatnonzero(~np.isfinite(results)).tolist():  # words only where a result is not a number
+        r = rows[k][0]
+        rows[k][0] = never if (r == math.inf and never) else _not_finite(r, f"the result for {name} entry {k + 1}")
+    return rows[0][0] if single else rows
 
 
 def _is_blank(value) -> bool:
@@ -196,35 +196,83 @@ def option(name: str, value, options) -> str:
     return choose(name, value, options)
 
 
+def _row(row):
+    """A row of a range as a sequence of cells: a bare value is a row of one."""
+    return row if isinstance(row, (list, tuple)) else [row]
+
+
 def _rows(value) -> list:
+    """A range as a list of rows (sequences of cells), not copied cell by cell; a bare value is one row of one."""
     if value is None:
         return []
     if not isinstance(value, (list, tuple)):
         return [[value]]
-    return [list(row) if isinstance(row, (list, tuple)) else [row] for row in value]
+    return [row if isinstance(row, (list, tuple)) else [row] for row in value]  # _row, inline: one call per range
 
 
 def width(value) -> int:
-    """Number of columns of a range (its widest row); 0 for a blank one. [-]"""
-    return max((len(row) for row in _rows(value)), default=0)
+    """Number of columns of a range, read off its first row; 0 for a blank one. [-]
+
+    A range is a rectangle, and :func:`table` refuses rows of unequal length
+    by name, so no row but the first is looked at.
+    """
+    rows = _rows(value[:1] if isinstance(value, (list, tuple)) else value)
+    return len(rows[0]) if rows else 0
 
 
-def _plain_numbers(rows):
-    """Rows of plain finite numbers, all of one length, as a 2-D array, read at once (a 10,000-row history); else None."""
+#: Cell types a range of plain numbers holds (a boolean, text or blank cell goes to the cell-by-cell path).
+_PLAIN = {float, int}
+
+
+def _finite_floats(cells: list):
+    """A list of cells, all plain finite numbers, as a float array read in one call; else None.
+
+    None sends the caller to its cell-by-cell path, which names the bad cell.
+    The type test comes first: numpy alone would read TRUE as 1 and the text
+    ``'2'`` as 2.
+    """
+    if not set(map(type, cells)) <= _PLAIN:
+        return None
+    try:
+        numbers = np.array(cells, dtype=float)
+    except OverflowError:  # an int beyond any float
+        return None
+    return numbers if np.all(np.isfinite(numbers)) else None
+
+
+def _plain_numbers(rows, count: int):
+    """The first ``count`` columns of rows of plain finite numbers, all rows of one length, as an array (rows, count); else None.
+
+    A 10,000-row history is read in four passes in C (lengths, cells, types,
+    numbers), with no object made per row.
+    """
     try:
         lengths = set(map(len, rows))
-        plain = len(lengths) == 1 and set(map(type, itertools.chain.from_iterable(rows))) <= {float, int}
-    except TypeError:  # not rows of cells
+    except TypeError:  # a row that is not a row of cells
         return None
-    width = lengths.pop() if plain else 0
-    if not width:
+    if len(lengths) != 1 or not count:
         return None
-    with np.errstate(over="ignore"):
-        try:
-            numbers = np.fromiter(itertools.chain.from_iterable(rows), dtype=float, count=len(rows) * width)
-        except OverflowError:  # an int beyond any float: the caller's path names its cell
-            return None
-    return numbers.reshape(len(rows), width) if np.all(np.isfinite(numbers)) else None
+    cells_per_row = lengths.pop()
+    if cells_per_row < count:
+        return None
+    numbers = _finite_floats(list(itertools.chain.from_iterable(rows)))
+    return None if numbers is None else numbers.reshape(len(rows), cells_per_row)[:, :count]
+
+
+def _data_rows(value):
+    """The rows of a range without a leading text header and trailing blank rows, looking only at its ends."""
+    rows = _rows(value) if not isinstance(value, (list, tuple)) else value
+    if rows and _is_header(_row(rows[0])):
+        rows = rows[1:]
+    end = len(rows)
+    while end and all(map(_is_blank, _row(rows[end - 1]))):
+        end -= 1
+    return rows[:end]
+
+
+def _is_header(row) -> bool:
+    """A row of labels: every filled cell text, at least one filled."""
+    return all(isinstance(c, str) for c in row if not _is_blank(c)) and not all(map(_is_blank, row))
 
 
 def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, optional: bool = False):
@@ -232,16 +280,14 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
 
     A leading row of text is a header and is skipped; blank rows at the end
     (a range drawn larger than its data) are dropped. With ``optional`` an
-    all-blank range gives None.
+    all-blank range gives None. Plain numbers are read at once; any other
+    range goes cell by cell, so that a message names the bad cell.
     """
-    numbers = _plain_numbers(value) if isinstance(value, (list, tuple)) else None
-    if numbers is not None and numbers.shape[0] >= min_rows and numbers.shape[1] >= len(columns):
-        return numbers[:, : len(columns)]
-    rows = _rows(value)
-    if rows and all(isinstance(c, str) for c in rows[0] if not _is_blank(c)) and not all(map(_is_blank, rows[0])):
-        rows = rows[1:]
-    while rows and all(map(_is_blank, rows[-1])):
-        rows.pop()
+    rows = _data_rows(value)
+    numbers = _plain_numbers(rows, len(columns))
+    if numbers is not None and numbers.shape[0] >= min_rows:
+        return numbers
+    rows = _rows(rows)
     if optional and not rows:
         return None
     if len(rows) < min_rows:
@@ -251,9 +297,6 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
     for r, row in enumerate(rows):
         if len(row) != len(rows[0]):
             raise InputError(f"{name} rows differ in length: row {r + 1} has {len(row)} cells, row 1 has {len(rows[0])}")
-    numbers = _plain_numbers(rows)  # plain numbers under a header: read at once too
-    if numbers is not None:
-        return numbers[:, : len(columns)]
     return np.array(
         [
             [as_float(f"{name} row {r + 1} {col}", row[c], unit) for c, (col, unit) in enumerate(zip(columns, units))]
@@ -262,10 +305,17 @@ def table(name: str, value, columns: tuple, units: tuple, min_rows: int = 1, opt
     )
 
 
+def _numbers(name: str, cells, unit: str) -> np.ndarray:
+    """Cells as a 1-D float array, read at once where all are plain numbers, else cell by cell naming ``name entry k``."""
+    numbers = _finite_floats(cells)
+    if numbers is not None:
+        return numbers
+    return np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+
+
 def column(name: str, value, unit: str = "") -> np.ndarray:
     """Numbers from a single row or column range (or one cell); trailing blanks dropped."""
-    cells = _filled_cells(name, value, unit)
-    return np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+    return _numbers(name, _filled_cells(name, value, unit), unit)
 
 
 def _single_cell(value):
@@ -289,7 +339,7 @@ def number_or_column(name: str, value, unit: str):
         cells = cells[1:]
     if not cells:
         raise InputTypeError(f"{name} has a label but no numbers in {unit}")
-    return None, np.array([as_float(f"{name} entry {k + 1}", c, unit) for k, c in enumerate(cells)])
+    return None, _numbers(name, cells, unit)
 
 
 def number_or_table(name: str, value, columns: tuple, units: tuple):
@@ -323,7 +373,7 @@ def name_values(name: str, value, names) -> dict:
 
 def _filled_cells(name: str, value, unit: str) -> list:
     """The cells of a range row by row, trailing blanks dropped; at least one."""
-    cells = [c for row in _rows(value) for c in row]
+    cells = list(itertools.chain.from_iterable(_rows(value)))
     while cells and _is_blank(cells[-1]):
         cells.pop()
     if not cells:

@@ -201,6 +201,25 @@ def test_cell_bad_history_gives_a_message(history, words):
     assert result.startswith("Error: ") and words in result, result
 
 
+
+def _long_start(columns: int) -> list:
+    """A 10,000-sample start under its header: time, then ``columns - 1`` currents (a wound rotor's five columns)."""
+    header = ["time [s]", "rotor current [A]", "speed [rpm]", "torque [N·m]", "stator current [A]"][:columns]
+    return [header, *([0.001 * k, *[420.0 - 0.01 * k] * (columns - 1)] for k in range(10_000))]
+
+
+@pytest.mark.parametrize("columns, words", [(2, "history row 7000 current ('x') is not a number in A"),
+                                            (5, "history row 7000 stator current ('x') is not a number in A")])
+def test_cell_a_bad_sample_deep_in_a_long_start_is_named(columns, words):
+    history = _long_start(columns)
+    fine = udfs.NW_RIDE_THROUGH(history, "IEC VI", 140.0, 1.0)
+    assert isinstance(fine, list) and fine[-1][0] == "caution", fine
+    history[7000][-1] = "x"
+    assert udfs.NW_RIDE_THROUGH(history, "IEC VI", 140.0, 1.0) == "Error: " + words
+    history[7000][-1] = True
+    assert "history row 7000" in udfs.NW_RIDE_THROUGH(history, "IEC VI", 140.0, 1.0)
+
+
 # --- coordination across the whole shared range ------------------------------------------------
 
 
