@@ -68,7 +68,7 @@ from .errors import DesignError, InputError, choose, quantity, require_non_negat
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
 from .compiled import compiled
 from .notch_integrator import (  # the start's integrator and its Hermite helpers: one machinery
-    DYNAMIC_BRAKE, PLUG, checked_rtol, circuit_system, cubic_at, cubic_integral, cubic_root, cubic_square_integral,
+    DYNAMIC_BRAKE, PLUG, checked_rtol, circuit_system, cubic_at, cubic_integrals, cubic_root,
     derivatives, hermite_cubic, rosenbrock_step, step_factor, turning_point,
 )
 from .start_load import LoadTorque, load_torque
@@ -533,9 +533,10 @@ def _run_stop(system, n_start, n_end, t_cap, rtol, i_floor, n_floor, h, tau, max
             s_top = turning_point(pn)
             if 0.0 < s_top <= s_end:
                 n_peak = max(n_peak, cubic_at(pn, s_top))
-        charge += h * cubic_integral(pi, s_end)
-        i2t += h * cubic_square_integral(pi, s_end)
-        n_t += h * cubic_integral(pn, s_end)
+        charge_step, i2t_step = cubic_integrals(pi, s_end)
+        charge += h * charge_step
+        i2t += h * i2t_step
+        n_t += h * cubic_integrals(pn, s_end)[0]
         if s_end < 1.0:
             i_end = cubic_at(pi, s_end)
             return _REACHED, t + s_end * h, i_end, max(i_peak, i_end), n_peak, charge, i2t, n_t

@@ -94,8 +94,7 @@ __all__ = [
     "cubic_at",
     "cubic_root",
     "turning_point",
-    "cubic_integral",
-    "cubic_square_integral",
+    "cubic_integrals",
     "checked_rtol",
     "STATUSES",
 ]
@@ -814,8 +813,8 @@ def turning_point(a):
 
 
 @compiled
-def cubic_integral(a, s):
-    """:math:`\\int_0^s p` of the cubic ``a``, in units of the step. [y units]
+def cubic_integrals(a, s):
+    """:math:`\\int_0^s p` and :math:`\\int_0^s p^2` of the cubic ``a``, exactly, in units of the step.
 
     Parameters
     ----------
@@ -826,39 +825,19 @@ def cubic_integral(a, s):
 
     Returns
     -------
-    float
-        The integral (times the step gives it in time). [y units]
+    tuple of float
+        The integral and the integral of the square (times the step give them in time). [y units], [y units²]
 
     Notes
     -----
-    .. math:: \\int_0^s p = a_0 s + a_1 s^2/2 + a_2 s^3/3 + a_3 s^4/4
-    """
-    return s * (a[0] + s * (a[1] / 2.0 + s * (a[2] / 3.0 + s * a[3] / 4.0)))
-
-
-@compiled
-def cubic_square_integral(a, s):
-    """:math:`\\int_0^s p^2` of the cubic ``a``, exactly, in units of the step. [y units²]
-
-    Parameters
-    ----------
-    a : tuple of float
-        The cubic, lowest power first. [y units]
-    s : float
-        Upper end, in units of the step. [-]
-
-    Returns
-    -------
-    float
-        The integral of the square. [y units²]
-
-    Notes
-    -----
-    .. math:: \\int_0^s p^2 = \\sum_{j,k} a_j a_k s^{j+k+1}/(j+k+1)
+    .. math:: \\int_0^s p = \\sum_j a_j \\frac{s^{j+1}}{j+1}, \\qquad
+              \\int_0^s p^2 = \\sum_{j,k} a_j a_k \\frac{s^{j+k+1}}{j+k+1}
     """
     a0, a1, a2, a3 = a
-    return s * (a0 * a0 + s * (a0 * a1 + s * ((a1 * a1 + 2.0 * a0 * a2) / 3.0 + s * (0.5 * (a0 * a3 + a1 * a2) + s * (
+    linear = s * (a0 + s * (a1 / 2.0 + s * (a2 / 3.0 + s * a3 / 4.0)))
+    square = s * (a0 * a0 + s * (a0 * a1 + s * ((a1 * a1 + 2.0 * a0 * a2) / 3.0 + s * (0.5 * (a0 * a3 + a1 * a2) + s * (
         (a2 * a2 + 2.0 * a1 * a3) / 5.0 + s * (a2 * a3 / 3.0 + s * a3 * a3 / 7.0))))))
+    return linear, square
 
 
 def checked_rtol(rtol) -> float:
@@ -1118,10 +1097,11 @@ def _run_notch(system, i, n, t_max, i_cut, n_settle, rtol, max_steps, keep_histo
             value = cubic_at(pi, s_peak)
             if value > peak:
                 peak, t_peak = value, t + s_peak * h
-        charge += h * cubic_integral(pi, s_end)
-        i2t += h * cubic_square_integral(pi, s_end)
+        charge_step, i2t_step = cubic_integrals(pi, s_end)
+        charge += h * charge_step
+        i2t += h * i2t_step
         if constant_load:
-            work += work_per_rpm_s * h * cubic_integral(pn, s_end)
+            work += work_per_rpm_s * h * cubic_integrals(pn, s_end)[0]
         else:
             quadrature = 0.0
             for k in range(3):

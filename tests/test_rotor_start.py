@@ -55,38 +55,27 @@ class TestAgainstSolveIvp:
         np.testing.assert_allclose(result.n_cut_rpm, n_cut, rtol=1e-9)
         np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-7)
 
-    def test_definite_time_start(self):
-        dwells = [0.9, 0.5, 0.3, 0.2, 0.15]
-        result = simulate_rotor_start(MOTOR, SECTIONS, LOAD_TABLE, dwell_s=dwells)
-        _, n_end, energy = reference(SECTIONS, LOAD_TABLE, dwells=dwells)
-        np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-9)
-        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-7)
-        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-6)
+    RISING = [[0.0, 150.0], [250.0, 400.0], [600.0, 1300.0], [900.0, 2600.0]]
 
-    @pytest.mark.parametrize("dwells", [[1.2, 0.0, 0.05, 0.4, 0.3], [1e-3, 0.7, 0.6, 0.5, 0.6]], ids=["a step skipped", "a short first step"])
-    def test_definite_time_start_on_a_rising_load_at_tight_tolerance(self, dwells):
-        """Newton's method on the time integral lands each dwell's end where solve_ivp (DOP853, rtol 1e-12, a
-        second method) ends it, on a load table whose corners fall inside steps: speeds within 1e-9, energies
-        within 5e-9 (the reference's own error is near 1e-10)."""
-        rising = [[0.0, 150.0], [250.0, 400.0], [600.0, 1300.0], [900.0, 2600.0]]
-        result = simulate_rotor_start(MOTOR, SECTIONS, rising, dwell_s=dwells)
-        _, n_end, energy = reference(SECTIONS, rising, dwells=dwells)
-        np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-12)
-        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-9)
-        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=5e-9)
-
-
-    def test_a_dwell_longer_than_the_step_needs_is_held_to_its_end(self):
-        """A timer longer than the motor needs to settle on a step still holds the step its whole dwell: the rotor
-        runs on at the step's steady slip, its resistance dissipating all the while, and the next step starts
-        at the sum of the dwells (solve_ivp, DOP853, a second method)."""
-        dwells = [60.0, 0.5, 0.3, 0.2, 0.15]  # the first step settles within about 24 s
-        result = simulate_rotor_start(MOTOR, SECTIONS, 1000.0, dwell_s=dwells)
-        _, n_end, energy = reference(SECTIONS, 1000.0, dwells=dwells)
+    @pytest.mark.parametrize("load, dwells, rtol_speed, rtol_energy", [
+        (LOAD_TABLE, [0.9, 0.5, 0.3, 0.2, 0.15], 1e-7, 1e-6),
+        # Corners of a rising load table inside steps: Newton's method on the time integral lands each dwell's
+        # end where the reference ends it (the reference's own error is near 1e-10).
+        (RISING, [1.2, 0.0, 0.05, 0.4, 0.3], 1e-9, 5e-9),
+        (RISING, [1e-3, 0.7, 0.6, 0.5, 0.6], 1e-9, 5e-9),
+        # A timer longer than the motor needs to settle (the first step settles within about 24 s) still holds
+        # the step its whole dwell: the rotor runs on at the step's steady slip, its resistance dissipating.
+        (1000.0, [60.0, 0.5, 0.3, 0.2, 0.15], 1e-9, 1e-7),
+    ], ids=["load table", "a step skipped", "a short first step", "a dwell longer than the step needs"])
+    def test_definite_time_start(self, load, dwells, rtol_speed, rtol_energy):
+        """Each step lasts its dwell and the next starts at the sum of the dwells; speeds and energies at each
+        step's end as solve_ivp (DOP853, rtol 1e-12, a second method) gives them."""
+        result = simulate_rotor_start(MOTOR, SECTIONS, load, dwell_s=dwells)
+        _, n_end, energy = reference(SECTIONS, load, dwells=dwells)
         np.testing.assert_allclose(result.dwell_s, dwells, rtol=1e-12)
         np.testing.assert_allclose(result.t_start_s, np.concatenate(([0.0], np.cumsum(dwells)[:-1])), rtol=1e-12)
-        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=1e-9)
-        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=1e-7)
+        np.testing.assert_allclose(result.n_cut_rpm, n_end, rtol=rtol_speed)
+        np.testing.assert_allclose(result.energy_notch_j, energy, rtol=rtol_energy)
 
 class TestEnergyLaw:
     def test_no_load_rotor_energy_is_half_j_ws2_times_slip_squares(self):
