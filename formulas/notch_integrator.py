@@ -380,6 +380,8 @@ class LoadTable:
         Speeds, strictly rising, float64. [rpm]
     torque_nm : numpy.ndarray
         Torque at each speed, float64. [N·m]
+    constant : bool
+        True when the torque does not depend on speed (worked out once, when the table is made). [-]
     """
 
     speed_rpm: np.ndarray
@@ -387,7 +389,7 @@ class LoadTable:
     constant: bool = field(init=False, repr=False, compare=False)
 
     def __post_init__(self):
-        # True when the torque does not depend on speed: the load work is then integrated in closed form.
+        # The load work of a constant load is integrated in closed form.
         object.__setattr__(self, "constant", bool(np.all(self.torque_nm == self.torque_nm[0])))
 
 
