@@ -1013,7 +1013,9 @@ def _kept(knots, count, t, i, n, fi, fn):
     """``knots`` with the row (t, i, n, fi, fn) at ``count``, doubled in length when full."""
     if count == knots.shape[0]:
         grown = np.empty((2 * count, 5))
-        grown[:count] = knots
+        for row in range(count):  # element by element: a slice assignment costs seconds of compilation
+            for column in range(5):
+                grown[row, column] = knots[row, column]
         knots = grown
     knots[count, 0], knots[count, 1], knots[count, 2], knots[count, 3], knots[count, 4] = t, i, n, fi, fn
     return knots
