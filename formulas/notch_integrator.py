@@ -67,6 +67,7 @@ from scipy.interpolate import PchipInterpolator
 
 from .compiled import compiled
 from .machines import NM_PER_V_A_PER_RPM, RAD_S_PER_RPM
+from .start_load import LoadTorque, load_and_slope
 from .errors import InputError, as_float_array, quantity, require_count, require_non_negative, require_positive
 
 __all__ = [
@@ -74,7 +75,6 @@ __all__ = [
     "flux_curve",
     "constant_flux",
     "motor_flux",
-    "LoadTable",
     "load_table",
     "NotchRun",
     "integrate_notch",
@@ -82,7 +82,6 @@ __all__ = [
     "cubic_pieces",
     "cubic_evaluator",
     "piecewise_cubic",
-    "load_and_slope",
     "DRIVE",
     "DYNAMIC_BRAKE",
     "PLUG",
@@ -370,31 +369,8 @@ def _in_armature_current(breaks, coefficients, offset_a, gain):
             np.array([(c3 * gain**3, c2 * gain**2, c1 * gain, c0) for c3, c2, c1, c0 in coefficients]))
 
 
-@dataclass(frozen=True)
-class LoadTable:
-    """Load torque against speed, linear between points and held beyond the ends.
-
-    Attributes
-    ----------
-    speed_rpm : numpy.ndarray
-        Speeds, strictly rising, float64. [rpm]
-    torque_nm : numpy.ndarray
-        Torque at each speed, float64. [N·m]
-    constant : bool
-        True when the torque does not depend on speed (worked out once, when the table is made). [-]
-    """
-
-    speed_rpm: np.ndarray
-    torque_nm: np.ndarray
-    constant: bool = field(init=False, repr=False, compare=False)
-
-    def __post_init__(self):
-        # The load work of a constant load is integrated in closed form.
-        object.__setattr__(self, "constant", bool(np.all(self.torque_nm == self.torque_nm[0])))
-
-
-def load_table(speed_rpm, torque_nm) -> LoadTable:
-    r"""A validated :class:`LoadTable`; one point for a constant load.
+def load_table(speed_rpm, torque_nm) -> LoadTorque:
+    r"""A validated :class:`~notchwise.formulas.start_load.LoadTorque` from two columns; one point for a constant load.
 
     Parameters
     ----------
@@ -406,7 +382,7 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
 
     Returns
     -------
-    LoadTable
+    LoadTorque
 
     Notes
     -----
@@ -418,39 +394,7 @@ def load_table(speed_rpm, torque_nm) -> LoadTable:
         raise InputError(f"load speed has {n.size} values but load torque has {t.size}")
     if np.any(np.diff(n) <= 0.0):
         raise InputError("load speeds must rise strictly")
-    return LoadTable(np.ascontiguousarray(n), np.ascontiguousarray(t))
-
-
-@compiled
-def load_and_slope(speeds, torques, n_rpm):
-    """Load torque and its slope at one speed, linear between points and held beyond the ends (as numpy.interp).
-
-    Parameters
-    ----------
-    speeds : numpy.ndarray
-        Speeds of the table, strictly rising, float64. [rpm]
-    torques : numpy.ndarray
-        Load torque at each speed, float64. [N·m]
-    n_rpm : float
-        Speed. [rpm]
-
-    Returns
-    -------
-    tuple of float
-        ``(T_L, dT_L/dn)``. [N·m], [N·m/rpm]
-
-    Notes
-    -----
-    .. math:: T_L(n) = T_k + (T_{k+1} - T_k)\\frac{n - n_k}{n_{k+1} - n_k}
-    """
-    k = np.searchsorted(speeds, n_rpm, side="right")
-    if k == 0:
-        return torques[0], 0.0
-    if k == speeds.shape[0]:
-        return torques[-1], 0.0
-    n0, n1 = speeds[k - 1], speeds[k]
-    slope = (torques[k] - torques[k - 1]) / (n1 - n0)
-    return torques[k - 1] + slope * (n_rpm - n0), slope
+    return LoadTorque(np.ascontiguousarray(n), np.ascontiguousarray(t))
 
 
 @dataclass(frozen=True)
@@ -531,7 +475,7 @@ def circuit_system(breaks, rows, speeds, torques, v_v, r_ohm, l_h, inertia_kgm2,
     breaks, rows : numpy.ndarray
         :math:`k\Phi` in the armature current (:attr:`FluxCurve.current_pieces`). [A], [V/rpm/A^k]
     speeds, torques : numpy.ndarray
-        The load table (:class:`LoadTable`). [rpm], [N·m]
+        The load table (:class:`~notchwise.formulas.start_load.LoadTorque`). [rpm], [N·m]
     v_v : float
         Source in the loop: the supply less the brush drop on a start, the plugging supply on a stop (0 for
         dynamic braking). [V]
@@ -871,7 +815,7 @@ def integrate_notch(
     r_ohm: float,
     l_h: float,
     inertia_kgm2: float,
-    load: LoadTable,
+    load: LoadTorque,
     i0_a: float,
     n0_rpm: float,
     *,
@@ -896,7 +840,7 @@ def integrate_notch(
         Inductance of the armature circuit, above zero. [H]
     inertia_kgm2 : float
         Inertia referred to the motor shaft, above zero. [kg·m²]
-    load : LoadTable
+    load : LoadTorque
         Load torque against speed. [N·m]
     i0_a, n0_rpm : float
         Current and speed at the start; the speed above zero or the current
@@ -945,8 +889,8 @@ def integrate_notch(
     n_settle = None if n_settle_rpm is None else require_positive("n_settle", n_settle_rpm, "rpm")
     if not isinstance(flux, FluxCurve):
         raise InputError("flux must be a FluxCurve (flux_curve, constant_flux or motor_flux)")
-    if not isinstance(load, LoadTable):
-        raise InputError("load must be a LoadTable (load_table)")
+    if not isinstance(load, LoadTorque):
+        raise InputError("load must be a LoadTorque (load_table or load_torque)")
 
     return integrate_notch_unchecked(flux, v, r, l_h, j, load, i, n, t_max, i_cut, n_settle, rtol, max_steps,
                                      bool(keep_history))
@@ -962,7 +906,7 @@ def integrate_notch_unchecked(flux, v_eff_v, r_ohm, l_h, inertia_kgm2, load, i0_
         Back-EMF per rpm against armature current. [V/rpm]
     v_eff_v, r_ohm, l_h, inertia_kgm2 : float
         Supply less brush drop, resistance, inductance and inertia, all above zero. [V], [ohm], [H], [kg·m²]
-    load : LoadTable
+    load : LoadTorque
         Load torque against speed. [N·m]
     i0_a, n0_rpm : float
         Current and speed at the start, at or above zero. [A], [rpm]

@@ -97,7 +97,7 @@ def _fast_phase(notch, flux, circuit, i_cut, t_left, t_cap, final_speed):
     the integrator is called without checking them again.
     """
     run = integrate_notch_unchecked(
-        flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, circuit.load_table, float(notch.i),
+        flux, circuit.v_eff_v, circuit.r_ohm, circuit.l_h, circuit.inertia_kgm2, circuit.load, float(notch.i),
         max(float(notch.n), 0.0), t_left if np.isfinite(t_left) else t_cap, i_cut,
         None if final_speed is None else SETTLED_FRACTION * final_speed,
         FAST_RTOL if circuit.rtol is None else circuit.rtol, MAX_STEPS_PER_NOTCH, True,

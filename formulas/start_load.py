@@ -19,13 +19,14 @@ case and the wound-rotor start take reactive loads only.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import cached_property
 
 import numpy as np
 
+from .compiled import compiled
 from .errors import InputError, as_float_array, quantity, shown
-from .notch_integrator import load_and_slope
 
-__all__ = ["LoadTorque", "load_torque"]
+__all__ = ["LoadTorque", "load_torque", "load_and_slope"]
 
 
 @dataclass(frozen=True)
@@ -46,9 +47,9 @@ class LoadTorque:
     speed_rpm: np.ndarray
     torque_nm: np.ndarray
 
-    @property
+    @cached_property
     def constant(self) -> bool:
-        """True when the load torque does not depend on speed."""
+        """True when the load torque does not depend on speed (the integrators then take its work in closed form)."""
         return bool(np.all(self.torque_nm == self.torque_nm[0]))
 
     @property
@@ -66,6 +67,38 @@ class LoadTorque:
     def at_rest_nm(self) -> float:
         """Load torque at 0 rpm: the reaction the motor must exceed to break away. [N·m]"""
         return float(self.at(0.0))
+
+
+@compiled
+def load_and_slope(speeds, torques, n_rpm):
+    """Load torque and its slope at one speed, linear between points and held beyond the ends (as numpy.interp).
+
+    Parameters
+    ----------
+    speeds : numpy.ndarray
+        Speeds of the table, strictly rising, float64. [rpm]
+    torques : numpy.ndarray
+        Load torque at each speed, float64. [N·m]
+    n_rpm : float
+        Speed. [rpm]
+
+    Returns
+    -------
+    tuple of float
+        ``(T_L, dT_L/dn)``. [N·m], [N·m/rpm]
+
+    Notes
+    -----
+    .. math:: T_L(n) = T_k + (T_{k+1} - T_k)\\frac{n - n_k}{n_{k+1} - n_k}
+    """
+    k = np.searchsorted(speeds, n_rpm, side="right")
+    if k == 0:
+        return torques[0], 0.0
+    if k == speeds.shape[0]:
+        return torques[-1], 0.0
+    n0, n1 = speeds[k - 1], speeds[k]
+    slope = (torques[k] - torques[k - 1]) / (n1 - n0)
+    return torques[k - 1] + slope * (n_rpm - n0), slope
 
 
 def load_torque(torque, signed: bool = False) -> LoadTorque:

@@ -77,9 +77,6 @@ class NotchCircuit:
     fast : bool
         True: the closed form where it applies and the fast integrator elsewhere; False: the general
         solver throughout, an independent second method for checks. [-]
-    load_table : LoadTable or None
-        The load as the fast integrator takes it
-        (:func:`notchwise.formulas.notch_integrator.load_table`), built once per start. [-]
     """
 
     v_eff_v: float
@@ -89,7 +86,6 @@ class NotchCircuit:
     load: object
     rtol: float | None
     fast: bool = True
-    load_table: object = None
 
 
 class NotchRecord:

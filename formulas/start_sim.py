@@ -94,7 +94,7 @@ from .errors import InputError, as_float_array, choose, quantity, require_count,
 from .grading import checked_sections, notch_resistances_ohm
 from .machines import Machine, checked_machine
 from .rotor_start import simulate_rotor_start
-from .notch_integrator import LoadTable, checked_rtol
+from .notch_integrator import checked_rtol
 from .start_load import LoadTorque, load_torque
 from .start_notch import (
     MAX_STEPS_PER_NOTCH, SETTLED_FRACTION, TIME_CAP_FACTOR, NotchCircuit, NotchRecord, StartIncomplete,
@@ -411,13 +411,12 @@ def simulate_start(
     t_mech = motor.mechanical_time_constant_s(r_notch[0], j, i_final if i_cut is None else i_cut)  # notch 1
     t_cap = TIME_CAP_FACTOR * (t_mech + l_h / r_motor)
 
-    table = LoadTable(load.speed_rpm, load.torque_nm)  # once per start, for the fast integrator (load checked above)
     notches = []
     t, i, n = 0.0, 0.0, 0.0
     for k, r in enumerate(r_notch):
         last = k == sections.size
         notch = NotchRecord(k + 1, t, i, n, sections.size)
-        circuit = NotchCircuit(v_eff, r, l_h, j, load, rtol, fast=method == "auto", load_table=table)
+        circuit = NotchCircuit(v_eff, r, l_h, j, load, rtol, fast=method == "auto")
         motor.advance_notch(notch, circuit, None if last else i_cut, np.inf if last else dwells[k], t_cap,
                             n_final if last else None)
         notches.append(notch)

@@ -205,7 +205,7 @@ GOOD = dict(flux=motor_flux(SERIES), v_eff_v=V, r_ohm=0.5, l_h=0.004, inertia_kg
         ({"t_max_s": float("inf")}, "t_max"),
         ({"n_settle_rpm": -1.0}, "n_settle"),
         ({"flux": lambda i: 1.0}, "flux must be a FluxCurve"),
-        ({"load": 520.0}, "load must be a LoadTable"),
+        ({"load": 520.0}, "load must be a LoadTorque"),
     ],
 )
 def test_bad_inputs_are_named(change, message):

@@ -20,7 +20,6 @@ from notchwise.formulas.dc_motor import NM_PER_V_A_PER_RPM as C1
 from notchwise.formulas.dc_motor import SeriesMotor, magnetization_curve
 from notchwise.formulas.errors import DesignError, InputError
 from notchwise.formulas.grading import grade_uniform
-from notchwise.formulas.notch_integrator import load_table
 from notchwise.formulas.start_sim import StartIncomplete, load_torque, simulate_start, start_history
 from tests.conftest import COMPOUND_AMPERE_TURNS, TEST_SECTIONS_OHM, TEST_SHUNT
 
@@ -319,8 +318,7 @@ def test_a_tiny_inertia_on_a_small_step_bound_stops_the_fast_path_with_a_message
     from notchwise.formulas.start_notch import NotchCircuit, NotchRecord
 
     notch = NotchRecord(1, 0.0, 0.0, 0.0, 3)
-    circuit = NotchCircuit(V - VB, 2.0, 0.01, 1e-6, load_torque(300.0), 1e-12,
-                           load_table=load_table([0.0], [300.0]))
+    circuit = NotchCircuit(V - VB, 2.0, 0.01, 1e-6, load_torque(300.0), 1e-12)
     with pytest.raises(StartIncomplete, match="step bound") as error:
         SERIES.advance_notch(notch, circuit, 200.0, np.inf, 1e4, None)
     assert error.value.outcome == "step bound"
