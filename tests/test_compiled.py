@@ -7,6 +7,7 @@ independent methods in tests/test_notch_integrator.py, tests/test_start_sim.py a
 
 from __future__ import annotations
 
+import glob
 import json
 import os
 import subprocess
@@ -58,6 +59,16 @@ def test_the_step_loop_is_machine_code_where_numba_is_installed():
     # A compiled function keeps the signatures it was compiled for; a plain Python function has none.
     notch_integrator.piecewise_cubic(*notch_integrator.constant_flux(0.3).current_pieces, 10.0)
     assert notch_integrator.piecewise_cubic.signatures
+
+
+@pytest.mark.skipif(not compiled.COMPILED, reason="numba is not installed here: nothing is compiled or cached")
+def test_the_compiled_code_is_kept_in_the_users_cache_not_beside_the_installed_source():
+    # Beside the source it would outlive an uninstall, and the folder left behind would shadow a later
+    # editable install of the package (seen: the Quick start's two lines run one after the other).
+    notch_integrator.piecewise_cubic(*notch_integrator.constant_flux(0.3).current_pieces, 10.0)
+    index = "notch_integrator.piecewise_cubic-*.nbi"
+    assert glob.glob(os.path.join(compiled.cache_folder(), "**", index), recursive=True)
+    assert not glob.glob(os.path.join(os.path.dirname(notch_integrator.__file__), "__pycache__", index))
 
 
 def test_a_function_compiles_or_stays_itself():
